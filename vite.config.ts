@@ -1,0 +1,11 @@
+import { defineConfig } from 'vite';
+
+// The workbench page lives in components/ (index.html at the repo root);
+// the test runner shares this file.
+export default defineConfig({
+  test: {
+    include: ['test/**/*.test.ts'],
+    testTimeout: 60_000,
+    hookTimeout: 120_000,
+  },
+});
