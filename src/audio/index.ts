@@ -1,0 +1,3 @@
+// Audio I/O: one line per module, add yours below.
+export * from './wav-read.ts';
+export * from './wav-write.ts';
