@@ -1,0 +1,109 @@
+/**
+ * Active speech level after ITU-T Recommendation P.56, method B (written from the
+ * Recommendation's description of the method; parameter values as in its clause
+ * "values of the parameters"):
+ *
+ * 1. Long-term: s = Σ x², n = number of samples.
+ * 2. Envelope: two cascaded first-order smoothers of |x| with time constant T = 0.03 s,
+ *    g = exp(−1 / (fs·T)):  q(i) = g·q(i−1) + (1−g)·|x(i)|,  p(i) = g·p(i−1) + (1−g)·q(i).
+ * 3. For each threshold c_j of a ladder: a sample is active while p(i) ≥ c_j, and for a
+ *    hangover of I = round(H·fs) samples (H = 0.2 s) after p last reached c_j;
+ *    a_j counts the active samples.
+ * 4. A_j = 10·log10(s / a_j) is the level the signal would have if only the a_j active
+ *    samples carried its energy; C_j = 20·log10(c_j). The active level is the value of A
+ *    where A − C equals the margin M = 15.9 dB, found by linear interpolation (in dB)
+ *    between the two neighbouring thresholds whose differences straddle M.
+ * 5. Activity factor = (s/n) / 10^(active/10).
+ *
+ * Where this differs from a fixed-point meter: the Recommendation's thresholds are fixed
+ * steps below the converter's full scale. Here the ladder is anchored to the signal's own
+ * peak |x| (c_j = peak·2^−j, j = 0…LADDER_STEPS−1, i.e. 6.02 dB apart, covering 150 dB), so
+ * that the result is exactly gain-invariant for floating-point data, which has no fixed
+ * full scale. The interpolation makes the result insensitive to where the rungs sit.
+ *
+ * Levels are in dB re an rms of 1 (a full-scale sine of peak 1 reads −3.01 dB).
+ */
+import { InputError } from '../errors.ts';
+
+export const P56_ENVELOPE_SECONDS = 0.03;
+export const P56_HANGOVER_SECONDS = 0.2;
+export const P56_MARGIN_DB = 15.9;
+const LADDER_STEPS = 25;
+
+export interface SpeechLevel {
+  /** 10·log10 of the mean square over active samples; −Infinity for digital silence. */
+  activeLevelDb: number;
+  /** Fraction of the samples judged active, 0…1. */
+  activityFactor: number;
+  /** 10·log10 of the mean square over all samples; −Infinity for digital silence. */
+  longTermRmsDb: number;
+}
+
+export function activeSpeechLevel(samples: Float64Array | Float32Array, sampleRateHertz: number): SpeechLevel {
+  if (!(Number.isFinite(sampleRateHertz) && sampleRateHertz > 0)) {
+    throw new InputError('sampleRateHertz', 'a positive number of hertz', `got ${sampleRateHertz}`);
+  }
+  const n = samples.length;
+  if (n === 0) throw new InputError('samples', 'at least one sample', 'got none');
+
+  let sumSquares = 0;
+  let peak = 0;
+  for (let i = 0; i < n; i++) {
+    const x = samples[i];
+    if (!Number.isFinite(x)) throw new InputError(`samples[${i}]`, 'a finite number', `got ${x}`);
+    sumSquares += x * x;
+    const magnitude = Math.abs(x);
+    if (magnitude > peak) peak = magnitude;
+  }
+  if (sumSquares === 0) return { activeLevelDb: -Infinity, activityFactor: 0, longTermRmsDb: -Infinity };
+  const longTermRmsDb = 10 * Math.log10(sumSquares / n);
+
+  const thresholds = new Float64Array(LADDER_STEPS);
+  for (let j = 0; j < LADDER_STEPS; j++) thresholds[j] = peak * 2 ** -j;
+  const activeCounts = new Float64Array(LADDER_STEPS);
+  const hangCounters = new Int32Array(LADDER_STEPS);
+  const hangoverSamples = Math.round(P56_HANGOVER_SECONDS * sampleRateHertz);
+  hangCounters.fill(hangoverSamples); // start "expired": nothing is active before the envelope rises
+
+  const g = Math.exp(-1 / (sampleRateHertz * P56_ENVELOPE_SECONDS));
+  let q = 0;
+  let p = 0;
+  for (let i = 0; i < n; i++) {
+    q = g * q + (1 - g) * Math.abs(samples[i]);
+    p = g * p + (1 - g) * q;
+    for (let j = 0; j < LADDER_STEPS; j++) {
+      if (p >= thresholds[j]) {
+        activeCounts[j]++;
+        hangCounters[j] = 0;
+      } else if (hangCounters[j] < hangoverSamples) {
+        activeCounts[j]++;
+        hangCounters[j]++;
+      }
+    }
+  }
+
+  // Walk from the lowest threshold (largest count, A − C large) upwards until A − C ≤ M.
+  let previousA = NaN;
+  let previousDelta = NaN;
+  let activeLevelDb = NaN;
+  for (let j = LADDER_STEPS - 1; j >= 0; j--) {
+    if (activeCounts[j] === 0) break;
+    const a = 10 * Math.log10(sumSquares / activeCounts[j]);
+    const delta = a - 20 * Math.log10(thresholds[j]);
+    if (delta <= P56_MARGIN_DB) {
+      if (Number.isNaN(previousDelta)) activeLevelDb = a; // even the lowest rung is within the margin
+      else {
+        const fraction = (previousDelta - P56_MARGIN_DB) / (previousDelta - delta);
+        activeLevelDb = previousA + fraction * (a - previousA);
+      }
+      break;
+    }
+    previousA = a;
+    previousDelta = delta;
+  }
+  // No rung came within the margin (an isolated click): the highest active rung is the best estimate.
+  if (Number.isNaN(activeLevelDb)) activeLevelDb = Number.isNaN(previousA) ? longTermRmsDb : previousA;
+
+  const activityFactor = Math.min(1, (sumSquares / n) / 10 ** (activeLevelDb / 10));
+  return { activeLevelDb, activityFactor, longTermRmsDb };
+}

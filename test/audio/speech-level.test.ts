@@ -1,0 +1,89 @@
+import { describe, expect, it } from 'vitest';
+import { activeSpeechLevel, P56_HANGOVER_SECONDS } from '../../src/audio/speech-level.ts';
+import { InputError } from '../../src/errors.ts';
+import { SeededRandom } from '../../src/numeric/random.ts';
+
+const RATE = 8000;
+/** Sine of `peak` at `hertz`, on where `on(seconds)` is true; t = n / rate (no accumulated time). */
+function tone(seconds: number, hertz: number, peak: number, on: (t: number) => boolean = () => true): Float64Array {
+  const out = new Float64Array(Math.round(seconds * RATE));
+  for (let n = 0; n < out.length; n++) {
+    const t = n / RATE;
+    out[n] = on(t) ? peak * Math.sin(2 * Math.PI * hertz * t) : 0;
+  }
+  return out;
+}
+const db = (ratio: number): number => 20 * Math.log10(ratio);
+
+describe('activeSpeechLevel (ITU-T P.56 method B)', () => {
+  it('a continuous tone is active throughout and its active level is its rms level', () => {
+    // P.56 "routine calibration of method-B meter", continuous tone: the meter reads the
+    // tone's rms level (clause title from the Recommendation's contents; tolerance ours).
+    // Rms of a sine of peak 0.5 is 0.5/√2 (closed form).
+    const level = activeSpeechLevel(tone(5, 1000, 0.5), RATE);
+    expect(level.longTermRmsDb).toBeCloseTo(db(0.5 / Math.SQRT2), 3);
+    expect(level.activeLevelDb).toBeCloseTo(level.longTermRmsDb, 1);
+    expect(Math.abs(level.activeLevelDb - level.longTermRmsDb)).toBeLessThan(0.05);
+    // Only the envelope's rise at the start (a few tens of ms) is inactive.
+    expect(level.activityFactor).toBeGreaterThan(0.99);
+    expect(level.activityFactor).toBeLessThanOrEqual(1);
+  });
+
+  it('steady white noise is active throughout and reads its rms level', () => {
+    // P.56 routine calibration with white noise (clause title; tolerance ours).
+    const rng = new SeededRandom(56);
+    const noise = Float64Array.from({ length: 5 * RATE }, () => 0.05 * rng.normal());
+    const level = activeSpeechLevel(noise, RATE);
+    expect(level.activityFactor).toBeGreaterThan(0.99);
+    expect(Math.abs(level.activeLevelDb - level.longTermRmsDb)).toBeLessThan(0.05);
+    expect(level.longTermRmsDb).toBeCloseTo(db(0.05), 1);
+  });
+
+  it('a tone gated on half the time has activity near 0.5 and an active level within 0.5 dB of the tone while on', () => {
+    // 4 s on, 4 s off, twice. Each burst is extended by the envelope decay plus the 0.2 s
+    // hangover, so activity is slightly above 0.5: about (4 + 0.2 + ~0.08) / 8 ≈ 0.53.
+    const gated = tone(16, 440, 0.3, (t) => t % 8 < 4);
+    const level = activeSpeechLevel(gated, RATE);
+    expect(level.activityFactor).toBeGreaterThan(0.5);
+    expect(level.activityFactor).toBeLessThan(0.55);
+    expect(Math.abs(level.activeLevelDb - db(0.3 / Math.SQRT2))).toBeLessThan(0.5);
+    expect(level.longTermRmsDb).toBeCloseTo(db(0.3 / Math.SQRT2) + 10 * Math.log10(0.5), 2);
+  });
+
+  it('counts the 0.2 s hangover after a burst as active', () => {
+    // One 1 s burst in 4 s: active time = burst + decay to the chosen threshold + hangover.
+    const burst = tone(4, 300, 0.2, (t) => t >= 1 && t < 2);
+    const activeSeconds = activeSpeechLevel(burst, RATE).activityFactor * 4;
+    const extra = activeSeconds - 1;
+    expect(extra).toBeGreaterThan(P56_HANGOVER_SECONDS);
+    expect(extra).toBeLessThan(P56_HANGOVER_SECONDS + 0.15);
+  });
+
+  it('scales exactly with gain: the level moves by 20·log10(gain) and activity does not change', () => {
+    const rng = new SeededRandom(9);
+    const base = tone(6, 250, 0.2, (t) => t % 2 < 1.2).map((x) => x + 0.002 * rng.normal());
+    const reference = activeSpeechLevel(base, RATE);
+    for (const gain of [0.001, 0.37, 5.3, 1000]) {
+      const scaled = activeSpeechLevel(base.map((x) => x * gain), RATE);
+      expect(scaled.activeLevelDb - reference.activeLevelDb).toBeCloseTo(db(gain), 9);
+      expect(scaled.longTermRmsDb - reference.longTermRmsDb).toBeCloseTo(db(gain), 9);
+      expect(scaled.activityFactor).toBeCloseTo(reference.activityFactor, 12);
+    }
+  });
+
+  it('reads digital silence as −∞ dB with no activity, and rejects empty or non-finite input', () => {
+    expect(activeSpeechLevel(new Float64Array(800), RATE)).toEqual({ activeLevelDb: -Infinity, activityFactor: 0, longTermRmsDb: -Infinity });
+    expect(() => activeSpeechLevel(new Float64Array(0), RATE)).toThrow(InputError);
+    expect(() => activeSpeechLevel(new Float64Array([0, Number.NaN]), RATE)).toThrow('samples[1]');
+    expect(() => activeSpeechLevel(new Float64Array(10), 0)).toThrow('sampleRateHertz');
+  });
+
+  it('gives a finite level for a single click', () => {
+    const click = new Float64Array(8000);
+    click[4000] = 0.9;
+    const level = activeSpeechLevel(click, RATE);
+    expect(Number.isFinite(level.activeLevelDb)).toBe(true);
+    expect(level.activityFactor).toBeGreaterThan(0);
+    expect(level.activityFactor).toBeLessThanOrEqual(1);
+  });
+});
