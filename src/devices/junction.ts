@@ -1,0 +1,73 @@
+/**
+ * A pn junction's ideal current I = Is·(exp(v/(n·VT)) − 1) and its conductance,
+ * evaluated without overflow, plus Newton step limiting.
+ */
+
+/** Above this exponent the exponential continues as a straight line (no overflow, still monotonic). */
+const EXPONENT_LIMIT = 80;
+const EXP_AT_LIMIT = Math.exp(EXPONENT_LIMIT);
+/** Below this exponent exp() is under 5e-18 of Is: treat the junction as fully reverse-biased. */
+const EXPONENT_FLOOR = -40;
+
+/** Result slots, reused so evaluation allocates nothing. */
+export class JunctionPoint {
+  amperes = 0;
+  siemens = 0;
+}
+
+export function evaluateJunction(volts: number, saturationAmperes: number, emissionVolts: number, out: JunctionPoint): void {
+  const exponent = volts / emissionVolts;
+  if (exponent < EXPONENT_FLOOR) {
+    out.amperes = -saturationAmperes;
+    out.siemens = 0;
+    return;
+  }
+  if (exponent > EXPONENT_LIMIT) {
+    out.amperes = saturationAmperes * (EXP_AT_LIMIT * (1 + exponent - EXPONENT_LIMIT) - 1);
+    out.siemens = (saturationAmperes * EXP_AT_LIMIT) / emissionVolts;
+    return;
+  }
+  const e = Math.exp(exponent);
+  out.amperes = saturationAmperes * (e - 1);
+  out.siemens = (saturationAmperes * e) / emissionVolts;
+}
+
+/**
+ * Critical voltage above which Newton steps are limited:
+ * Vcrit = n·VT·ln(n·VT / (√2·Is)) (Nagel, "SPICE2: A computer program to
+ * simulate semiconductor circuits", UCB ERL-M520, 1975).
+ */
+export function criticalVolts(saturationAmperes: number, emissionVolts: number): number {
+  return emissionVolts * Math.log(emissionVolts / (Math.SQRT2 * saturationAmperes));
+}
+
+/**
+ * Limits a junction's Newton update (Nagel 1975): above Vcrit a large step is
+ * replaced by the step that makes the current change logarithmically.
+ * Returns the voltage to evaluate at; `limited` tells whether it changed.
+ */
+export function limitJunctionStep(
+  proposedVolts: number,
+  previousVolts: number,
+  emissionVolts: number,
+  criticalVoltage: number,
+  flag: { limited: boolean },
+): number {
+  if (proposedVolts > criticalVoltage && Math.abs(proposedVolts - previousVolts) > 2 * emissionVolts) {
+    flag.limited = true;
+    if (previousVolts > 0) {
+      const argument = 1 + (proposedVolts - previousVolts) / emissionVolts;
+      return argument > 0 ? previousVolts + emissionVolts * Math.log(argument) : criticalVoltage;
+    }
+    return emissionVolts * Math.log(proposedVolts / emissionVolts);
+  }
+  return proposedVolts;
+}
+
+/** Forward current above which a junction counts as conducting when naming a region, in amperes. */
+export const CONDUCTING_AMPERES = 1e-7;
+
+/** Voltage at which the junction carries CONDUCTING_AMPERES. */
+export function conductingVolts(saturationAmperes: number, emissionVolts: number): number {
+  return emissionVolts * Math.log(1 + CONDUCTING_AMPERES / saturationAmperes);
+}

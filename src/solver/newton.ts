@@ -1,0 +1,98 @@
+import type { CircuitSystem } from './system.ts';
+
+/** Convergence tolerances of the Newton iteration. */
+export interface NewtonTolerances {
+  /** Relative tolerance on every unknown. */
+  relative: number;
+  /** Absolute tolerance on node voltages, volts. */
+  volts: number;
+  /** Absolute tolerance on branch currents, amperes. */
+  amperes: number;
+  /** Iterations before giving up. */
+  maxIterations: number;
+}
+
+export const DEFAULT_TOLERANCES: NewtonTolerances = { relative: 1e-6, volts: 1e-7, amperes: 1e-12, maxIterations: 60 };
+export const TIGHT_TOLERANCES: NewtonTolerances = { relative: 1e-10, volts: 1e-12, amperes: 1e-16, maxIterations: 200 };
+
+export interface NewtonOutcome {
+  converged: boolean;
+  iterations: number;
+  /** Unknown with the largest update relative to its tolerance in the last iteration. */
+  worstUnknown: number;
+  /** The matrix was singular. */
+  singular: boolean;
+}
+
+/**
+ * Newton–Raphson on the stamped system: solve the linearised circuit, repeat
+ * until no unknown moves more than its tolerance and no junction step was
+ * limited. `x` holds the starting guess and receives the answer.
+ */
+export class Newton {
+  private readonly next: Float64Array;
+  readonly outcome: NewtonOutcome = { converged: false, iterations: 0, worstUnknown: -1, singular: false };
+  /** Newton iterations since construction (for the benchmark). */
+  totalIterations = 0;
+
+  constructor(
+    private readonly system: CircuitSystem,
+    public tolerances: NewtonTolerances = DEFAULT_TOLERANCES,
+  ) {
+    this.next = new Float64Array(system.size + 1);
+  }
+
+  solve(x: Float64Array, initialiseJunctions = false): NewtonOutcome {
+    const system = this.system;
+    const next = this.next;
+    const out = this.outcome;
+    const { relative, volts, amperes, maxIterations } = this.tolerances;
+    const nodeCount = system.nodeCount;
+    const size = system.size;
+    const hasNonlinear = system.nonlinearDevices.length > 0;
+    out.converged = false;
+    out.singular = false;
+    out.worstUnknown = -1;
+    system.iteration.initialiseJunctions = initialiseJunctions;
+    for (let iteration = 1; iteration <= maxIterations; iteration++) {
+      out.iterations = iteration;
+      this.totalIterations++;
+      if (!system.iterate(x, next)) {
+        out.singular = true;
+        return out;
+      }
+      let worstRatio = 0;
+      let worst = -1;
+      let finite = true;
+      for (let i = 0; i < size; i++) {
+        const a = next[i];
+        const b = x[i];
+        if (!Number.isFinite(a)) {
+          finite = false;
+          worst = i;
+          break;
+        }
+        const tolerance = relative * Math.max(Math.abs(a), Math.abs(b)) + (i < nodeCount ? volts : amperes);
+        const ratio = Math.abs(a - b) / tolerance;
+        if (ratio > worstRatio) {
+          worstRatio = ratio;
+          worst = i;
+        }
+      }
+      out.worstUnknown = worst;
+      if (!finite) return out;
+      x.set(next);
+      const wasInitialising = system.iteration.initialiseJunctions;
+      system.iteration.initialiseJunctions = false;
+      if (!hasNonlinear) {
+        out.converged = true;
+        return out;
+      }
+      if (worstRatio <= 1 && !system.iteration.limited && !wasInitialising) {
+        out.converged = true;
+        return out;
+      }
+    }
+    return out;
+  }
+}

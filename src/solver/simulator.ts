@@ -1,0 +1,165 @@
+import type { Circuit } from '../circuit/types.ts';
+import { ConvergenceError } from '../errors.ts';
+import type { IntegrationMethod } from './integrator.ts';
+import { DEFAULT_TOLERANCES, Newton, type NewtonTolerances } from './newton.ts';
+import { solveOperatingPoint, type OperatingPointMethod } from './operating-point.ts';
+import { CircuitSystem, type LinearAlgebra } from './system.ts';
+
+export interface SimulatorOptions {
+  /** Integration rule after the first (backward-Euler) step: 'tr' (trapezoidal) or 'bdf2'. */
+  method?: Extract<IntegrationMethod, 'tr' | 'bdf2'>;
+  tolerances?: NewtonTolerances;
+  linearAlgebra?: LinearAlgebra;
+}
+
+/** How many times a fixed step may be halved to get through a hard spot. */
+const MAX_SUBDIVISIONS = 12;
+/** A step that took more iterations than this switches the predictor off for the next one. */
+const HARD_STEP_ITERATIONS = 5;
+
+/**
+ * A circuit being simulated: DC operating point, then time steps. Keeps the
+ * solution `x` (node voltages then branch currents; x[size] is ground).
+ */
+export class Simulator {
+  readonly system: CircuitSystem;
+  readonly newton: Newton;
+  readonly method: 'tr' | 'bdf2';
+  /** Current solution. */
+  readonly x: Float64Array;
+  /** Previous accepted solution (for the predictor). */
+  private readonly previous: Float64Array;
+  private readonly trial: Float64Array;
+  timeSeconds = 0;
+  private lastStepSeconds = 0;
+  /** The next step restarts the integrator with backward Euler (after DC or a breakpoint). */
+  private restart = true;
+  private predict = false;
+  private pendingStep = 0;
+  private pendingTarget = 0;
+  /** Accepted steps and subdivided steps since construction (for the benchmark). */
+  steps = 0;
+  subdividedSteps = 0;
+
+  constructor(circuit: Circuit, options: SimulatorOptions = {}) {
+    this.system = new CircuitSystem(circuit, options.linearAlgebra ?? 'sparse');
+    this.newton = new Newton(this.system, options.tolerances ?? DEFAULT_TOLERANCES);
+    this.method = options.method ?? 'tr';
+    this.x = new Float64Array(this.system.size + 1);
+    this.previous = new Float64Array(this.system.size + 1);
+    this.trial = new Float64Array(this.system.size + 1);
+  }
+
+  /** Finds the DC operating point and makes it the state at t = 0. */
+  operatingPoint(): OperatingPointMethod {
+    const how = solveOperatingPoint(this.system, this.newton, this.x);
+    this.previous.set(this.x);
+    this.timeSeconds = 0;
+    this.restart = true;
+    this.predict = false;
+    this.lastStepSeconds = 0;
+    return how;
+  }
+
+  /** The next step starts the integrator afresh (call at a corner of a drive). */
+  markBreakpoint(): void {
+    this.restart = true;
+    this.predict = false;
+  }
+
+  /**
+   * Advances by exactly `stepSeconds` to `targetSeconds` (pass the target so
+   * time is computed from an integer index, not accumulated). Splits the step
+   * in halves where Newton fails; throws a ConvergenceError if even the
+   * smallest piece fails.
+   */
+  step(stepSeconds: number, targetSeconds = this.timeSeconds + stepSeconds): void {
+    if (this.tryStep(stepSeconds, targetSeconds)) return;
+    this.subdividedSteps++;
+    this.subdivide(this.timeSeconds, targetSeconds, 1);
+    // The pieces were short: start the integrator afresh rather than extrapolate from them.
+    this.restart = true;
+    this.predict = false;
+  }
+
+  private subdivide(fromSeconds: number, toSeconds: number, depth: number): void {
+    const middle = 0.5 * (fromSeconds + toSeconds);
+    for (const [a, b] of [
+      [fromSeconds, middle],
+      [middle, toSeconds],
+    ]) {
+      this.restart = true;
+      if (this.tryStep(b - a, b)) continue;
+      if (depth >= MAX_SUBDIVISIONS) this.fail(b);
+      this.subdivide(a, b, depth + 1);
+    }
+  }
+
+  /** One attempt at a step; on failure the state is left as it was. */
+  tryStep(stepSeconds: number, targetSeconds: number): boolean {
+    if (!this.solveStep(stepSeconds, targetSeconds)) return false;
+    this.commitStep();
+    return true;
+  }
+
+  /**
+   * Solves the step ending at `targetSeconds` into `trial` without moving any
+   * history on, so the caller may still reject it (error control).
+   */
+  solveStep(stepSeconds: number, targetSeconds: number): boolean {
+    const system = this.system;
+    const x = this.x;
+    const method = this.restart ? 'be' : this.method;
+    const previousStep = this.lastStepSeconds > 0 ? this.lastStepSeconds : stepSeconds;
+    const integrator = system.integrator;
+    if (integrator.method !== method || integrator.stepSeconds !== stepSeconds || (method === 'bdf2' && previousStep !== stepSeconds)) {
+      integrator.set(method, stepSeconds, previousStep);
+      system.stampConstants();
+    }
+    system.beginStep(targetSeconds, 1);
+    const trial = this.trial;
+    trial.set(x);
+    if (this.predict) {
+      // Linear extrapolation from the last two accepted points.
+      const ratio = stepSeconds / this.lastStepSeconds;
+      const prev = this.previous;
+      for (let i = 0; i < system.size; i++) trial[i] = x[i] + (x[i] - prev[i]) * ratio;
+    }
+    const outcome = this.newton.solve(trial, false);
+    this.pendingStep = stepSeconds;
+    this.pendingTarget = targetSeconds;
+    return outcome.converged;
+  }
+
+  /** The solution of the last `solveStep`, not yet accepted. */
+  get trialSolution(): Float64Array {
+    return this.trial;
+  }
+
+  /** Accepts the last solved step. */
+  commitStep(): void {
+    const x = this.x;
+    this.previous.set(x);
+    x.set(this.trial);
+    this.system.accept(x);
+    this.timeSeconds = this.pendingTarget;
+    this.lastStepSeconds = this.pendingStep;
+    this.restart = false;
+    this.predict = this.newton.outcome.iterations <= HARD_STEP_ITERATIONS;
+    this.steps++;
+  }
+
+  private fail(seconds: number): never {
+    const outcome = this.newton.outcome;
+    const node = outcome.worstUnknown >= 0 ? this.system.unknownNames[outcome.worstUnknown] : null;
+    const part = this.system.mostActivePart();
+    const what = outcome.singular ? 'the circuit matrix became singular' : 'Newton iteration did not converge';
+    throw new ConvergenceError(
+      `${what} at t = ${seconds.toPrecision(6)} s even with the step cut ${2 ** MAX_SUBDIVISIONS}-fold` +
+        `${node ? `; node ${node} moved most` : ''}${part ? `, part ${part} most at fault` : ''}`,
+      seconds,
+      node,
+      part,
+    );
+  }
+}
