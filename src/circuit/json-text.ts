@@ -100,6 +100,7 @@ class JsonScanner {
     for (;;) {
       this.whitespace();
       const keyStart = this.at;
+      if (this.text[this.at] === '}') return this.fail('a key in double quotes (JSON allows no trailing comma before a closing brace)');
       if (this.text[this.at] !== '"') return this.fail('a key in double quotes');
       const key = this.string();
       if (key.problem) return key.problem;

@@ -132,12 +132,12 @@ export const BUILT_IN_MODELS: Readonly<Record<string, Model>> = {
     wavelength: 460e-9,
     quantumEfficiency: 0.2,
   },
-  // GaAlAs infrared: ≈ 1.43 V at 20 mA, ≈ 1.63 V at 100 mA.
+  // GaAlAs infrared: ≈ 1.49 V at 20 mA, ≈ 1.68 V at 100 mA.
   'generic-infrared-led': {
     kind: 'led',
-    saturationCurrent: 5e-17,
+    saturationCurrent: 1e-17,
     emissionCoefficient: 1.6,
-    seriesResistance: 2,
+    seriesResistance: 1.5,
     junctionCapacitance: 50e-12,
     wavelength: 850e-9,
     quantumEfficiency: 0.2,

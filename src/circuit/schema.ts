@@ -255,7 +255,10 @@ export const circuitSchema = strictObject(
     temperature: quantity('Ambient temperature in degrees Celsius; default 27.', 'a temperature in °C between -273.15 and 500', (celsius) => celsius > -273.15 && celsius <= 500).optional(),
     parts: z.array(partSchema, { error: 'an array of parts' }).min(1, { error: 'at least one part' }),
     models: z
-      .record(noSpaces('a model name', '"my-led"'), modelSchema, { error: 'an object mapping model names to parameter objects' })
+      .record(noSpaces('a model name', '"my-led"'), modelSchema, {
+        error: (issue) =>
+          issue.code === 'invalid_key' ? 'a model name without spaces, e.g. "my-led"' : 'an object mapping model names to parameter objects',
+      })
       .optional(),
   },
   'A glowtalk circuit file (glowtalk.circuit/1); see docs/circuit-format.md.',
