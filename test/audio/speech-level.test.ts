@@ -1,5 +1,7 @@
+import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { activeSpeechLevel, P56_HANGOVER_SECONDS } from '../../src/audio/speech-level.ts';
+import { decodeWav } from '../../src/audio/wav-read.ts';
 import { InputError } from '../../src/errors.ts';
 import { SeededRandom } from '../../src/numeric/random.ts';
 
@@ -86,4 +88,27 @@ describe('activeSpeechLevel (ITU-T P.56 method B)', () => {
     expect(level.activityFactor).toBeGreaterThan(0);
     expect(level.activityFactor).toBeLessThanOrEqual(1);
   });
+});
+
+describe('bundled recordings (samples/speech, made by scripts/make-speech-samples.sh)', () => {
+  for (const name of ['bay-talkback.wav', 'bay-talkback-2.wav']) {
+    it(`${name} is 48 kHz mono 16-bit, about 10 s, silent 0.3 s at each end and speech in between`, () => {
+      const wav = decodeWav(readFileSync(new URL(`../../samples/speech/${name}`, import.meta.url)), name);
+      expect(wav.sampleRateHertz).toBe(48000);
+      expect(wav.format).toEqual({ encoding: 'pcm', bitsPerSample: 16, channelCount: 1 });
+      const seconds = wav.mono.length / 48000;
+      expect(seconds).toBeGreaterThan(9);
+      expect(seconds).toBeLessThan(12);
+      const peak = (x: Float64Array): number => x.reduce((m, v) => Math.max(m, Math.abs(v)), 0);
+      const edge = 0.29 * 48000;
+      expect(peak(wav.mono.subarray(0, edge))).toBeLessThanOrEqual(2 / 32768); // silence up to dither
+      expect(peak(wav.mono.subarray(wav.mono.length - edge))).toBeLessThanOrEqual(2 / 32768);
+      expect(db(peak(wav.mono))).toBeCloseTo(-6, 1); // sox norm -6
+      const level = activeSpeechLevel(wav.mono, 48000);
+      expect(level.activityFactor).toBeGreaterThan(0.6);
+      expect(level.activityFactor).toBeLessThan(0.98);
+      expect(level.activeLevelDb).toBeGreaterThan(-30);
+      expect(level.activeLevelDb).toBeLessThan(-15);
+    });
+  }
 });
