@@ -143,7 +143,8 @@ function resolveModels(parts: readonly PartEntry[], fileModels: Readonly<Record<
   return parts.map((part, index) => {
     const kind = PART_MODEL_KIND[part.kind];
     if (!kind || !('model' in part)) return undefined;
-    const model = completed.get(part.model) ?? BUILT_IN_MODELS[part.model];
+    // hasOwn: a name like "constructor" must not find Object.prototype members.
+    const model = completed.get(part.model) ?? (Object.hasOwn(BUILT_IN_MODELS, part.model) ? BUILT_IN_MODELS[part.model] : undefined);
     const fileNames = Object.keys(fileModels).filter((name) => usedAs.get(name)?.kind === kind || fileModels[name].kind === kind);
     const choices = [...fileNames, ...builtInModelNames(kind)].join(', ');
     if (!model) {

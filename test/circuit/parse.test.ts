@@ -140,6 +140,7 @@ const BAD_FILES: ReadonlyArray<readonly [string, unknown, string, RegExp]> = [
   ['upstream wave with extra field', file([{ ref: 'V1', kind: 'voltage-source', pins: ['a', 'gnd'], wave: { shape: 'upstream', gain: 2 } }]), 'parts[0].wave.gain', /unknown field/],
   ['negative light', file([{ ref: 'P1', kind: 'phototransistor', pins: ['a', 'gnd'], model: 'generic-phototransistor', light: { dc: '-1u' } }]), 'parts[0].light.dc', /an optical power in watts >= 0/],
   ['missing model', file([{ ref: 'D1', kind: 'diode', pins: ['a', 'gnd'], model: 'fast-diode' }]), 'parts[0].model', /no model "fast-diode".*expected the name of a diode model: generic-silicon-diode/],
+  ['model name of an Object.prototype member', file([{ ref: 'D1', kind: 'diode', pins: ['a', 'gnd'], model: 'constructor' }]), 'parts[0].model', /no model "constructor"/],
   ['no model field', file([{ ref: 'D1', kind: 'diode', pins: ['a', 'gnd'] }]), 'parts[0].model', /missing; expected a model name/],
   ['built-in of another kind', file([{ ref: 'D1', kind: 'led', pins: ['a', 'gnd'], model: 'generic-npn' }]), 'parts[0].model', /"generic-npn" is a built-in npn model; expected an led model: generic-red-led/],
   [

@@ -18,3 +18,13 @@ describe('sample circuits', () => {
     });
   }
 });
+
+describe('docs/circuit-format.md', () => {
+  it('its complete example parses', () => {
+    const doc = readFileSync(new URL('../../docs/circuit-format.md', import.meta.url), 'utf8');
+    const example = /```json\n([\s\S]*?)```/.exec(doc);
+    expect(example).not.toBeNull();
+    const circuit = parseCircuitText(example![1], 'circuit-format.md');
+    expect(circuit.parts.map((part) => part.kind)).toEqual(['voltage-source', 'resistor', 'led']);
+  });
+});
