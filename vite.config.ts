@@ -1,4 +1,4 @@
-import { defineConfig } from 'vite';
+import { defineConfig } from 'vitest/config';
 
 // The workbench page lives in components/ (index.html at the repo root);
 // the test runner shares this file.
