@@ -61,8 +61,8 @@ export function align(clean: ArrayLike<number>, degraded: ArrayLike<number>, rat
   const lowest = -Math.min(maxLag, clean.length - 1);
   for (let lag = lowest; lag <= highest; lag++) {
     const value = Math.abs(correlation[2 * (lag >= 0 ? lag : size + lag)]);
-    // Ties (e.g. silence) prefer the smallest delay.
-    if (value > best * (1 + 1e-12) || (value >= best * (1 - 1e-12) && Math.abs(lag) < Math.abs(bestLag))) {
+    // Ties (e.g. silence) go to the smallest delay.
+    if (value > best || (value === best && Math.abs(lag) < Math.abs(bestLag))) {
       best = value;
       bestLag = lag;
     }

@@ -70,8 +70,8 @@ export function stoi(clean: ArrayLike<number>, degraded: ArrayLike<number>, rate
   checkSamples('clean', clean);
   checkSamples('degraded', degraded);
   checkSameLength('clean', clean, 'degraded', degraded);
-  let x = Float64Array.from(clean);
-  let y = Float64Array.from(degraded);
+  let x: Float64Array = Float64Array.from(clean);
+  let y: Float64Array = Float64Array.from(degraded);
   if (rateHertz !== P.rateHertz) {
     x = resample(x, rateHertz, P.rateHertz);
     y = resample(y, rateHertz, P.rateHertz);
@@ -121,8 +121,8 @@ export function stoiAligned(clean: ArrayLike<number>, degraded: ArrayLike<number
   checkRate('rateHertz', rateHertz);
   checkSamples('clean', clean);
   checkSamples('degraded', degraded);
-  let x = Float64Array.from(clean);
-  let y = Float64Array.from(degraded);
+  let x: Float64Array = Float64Array.from(clean);
+  let y: Float64Array = Float64Array.from(degraded);
   if (rateHertz !== P.rateHertz) {
     x = resample(x, rateHertz, P.rateHertz);
     y = resample(y, rateHertz, P.rateHertz);

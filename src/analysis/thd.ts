@@ -84,6 +84,10 @@ export function thd(samples: ArrayLike<number>, rateHertz: number, options: ThdO
       };
     }
   }
+  if (excluded === null && fitsInBand < 2) {
+    const limitedByNyquist = bandUpperHertz === edgeHertz;
+    excluded = { fromOrder: 2, toOrder: 2, reason: limitedByNyquist ? 'above the highest frequency clear of Nyquist' : `above the ${bandUpperHertz} Hz analysis bandwidth` };
+  }
   const harmonics: HarmonicLevel[] = [];
   let harmonicSquares = 0;
   for (let order = 2; order <= highestOrder; order++) {

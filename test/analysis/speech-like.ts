@@ -1,5 +1,5 @@
 /**
- * Test-only speech-like signal (invented for tests): white noise coloured by
+ * Test-only amplitude-modulated noise (invented for tests; STOI tests use src/audio/signals/speech-like.ts): white noise coloured by
  * a one-pole low-pass (speech's falling long-term spectrum), amplitude
  * modulated by a 4 Hz syllable rhythm, with 250 ms pauses every 1.25 s so
  * that STOI's silent-frame removal has something to remove.

@@ -1,8 +1,14 @@
 import { describe, expect, it } from 'vitest';
 import { STOI_CLIP_FACTOR, STOI_PARAMETERS, stoi, stoiAligned, stoiBands } from '../../src/analysis/stoi.ts';
-import { speechLike, withNoise } from './speech-like.ts';
+import { speechLike as speechSignal } from '../../src/audio/signals/speech-like.ts';
+import { withNoise } from './speech-like.ts';
 
 const RATE = 16000;
+
+/** The project's own speech-like signal (src/audio/signals/speech-like.ts), 0.1 rms. */
+function speechLike(rateHertz: number, seconds: number, seed = 1): Float64Array {
+  return speechSignal({ sampleRateHertz: rateHertz, seconds, rmsAmplitude: 0.1, seed });
+}
 
 describe('stoi', () => {
   it('uses the paper’s parameters (Taal et al., IEEE TASLP 19(7), 2011, sec. II)', () => {
@@ -38,7 +44,7 @@ describe('stoi', () => {
     const scores = [20, 10, 0, -5, -10].map((snr, i) => stoi(x, withNoise(x, snr, 100 + i), RATE));
     for (let i = 1; i < scores.length; i++) expect(scores[i]).toBeLessThan(scores[i - 1]);
     expect(scores[0]).toBeGreaterThan(0.9);
-    expect(scores[4]).toBeLessThan(0.6);
+    expect(scores[0] - scores[4]).toBeGreaterThan(0.2);
   });
 
   it('ignores a change of gain (exactly, to rounding)', () => {
@@ -51,13 +57,14 @@ describe('stoi', () => {
   it('after alignment, ignores a delay within the search range (within 0.01)', () => {
     const x = speechLike(RATE, 4);
     const y = withNoise(x, 0, 9);
-    const delaySamples = Math.round(0.137 * RATE);
-    const delayed = new Float64Array(y.length);
-    for (let n = delaySamples; n < y.length; n++) delayed[n] = 0.4 * y[n - delaySamples];
+    const delaySamples = 2194; // 0.137125 s: not a whole number of 10 kHz samples (1371.25), so alignment is not exact
+    // A recording that captured all of the delayed output: longer than the clean signal.
+    const delayed = new Float64Array(y.length + delaySamples);
+    for (let n = 0; n < y.length; n++) delayed[n + delaySamples] = 0.4 * y[n];
     const reference = stoi(x, y, RATE);
     expect(Math.abs(stoiAligned(x, delayed, RATE, { maxLagSeconds: 0.5 }) - reference)).toBeLessThan(0.01);
     // Without alignment the delay ruins the score.
-    expect(stoi(x, delayed, RATE)).toBeLessThan(reference - 0.1);
+    expect(stoi(x, delayed.subarray(0, x.length), RATE)).toBeLessThan(reference - 0.1);
   });
 
   it('takes well under a second for 10 s at 48 kHz', () => {

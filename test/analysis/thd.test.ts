@@ -108,6 +108,10 @@ describe('thd', () => {
     const nyquistLimited = thd(x, RATE, { harmonicCount: 10, bandUpperHertz: 30000 });
     expect(nyquistLimited.highestOrder).toBe(7);
     expect(nyquistLimited.excluded?.reason).toContain('Nyquist');
+    const noneInBand = thd(sampled((t) => Math.sin(t), 12000, 48000), RATE);
+    expect(noneInBand.harmonics).toHaveLength(0);
+    expect(noneInBand.thdFundamental).toBe(0);
+    expect(noneInBand.excluded).toMatchObject({ fromOrder: 2 });
   });
 
   it('rejects a record too short to separate the harmonics, and non-whole cycles when coherent', () => {
