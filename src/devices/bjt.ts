@@ -194,6 +194,20 @@ export class Bjt implements ThreeTerminal {
     return classifyRegion(vbe > this.conductingVoltage, vbc > this.conductingVoltage);
   }
 
+  /** True when both junctions conduct (no allocation: for per-step statistics). */
+  isSaturated(x: Float64Array): boolean {
+    const vb = voltageAt(x, this.b);
+    const p = this.polarity;
+    return p * (vb - voltageAt(x, this.e)) > this.conductingVoltage && p * (vb - voltageAt(x, this.c)) > this.conductingVoltage;
+  }
+
+  /** True when neither junction conducts (no allocation: for per-step statistics). */
+  isCutOff(x: Float64Array): boolean {
+    const vb = voltageAt(x, this.b);
+    const p = this.polarity;
+    return p * (vb - voltageAt(x, this.e)) <= this.conductingVoltage && p * (vb - voltageAt(x, this.c)) <= this.conductingVoltage;
+  }
+
   /** The junction voltage above which this transistor's junctions count as conducting. */
   get conductingJunctionVolts(): number {
     return this.conductingVoltage;

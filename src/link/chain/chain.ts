@@ -1,0 +1,253 @@
+import { Bjt } from '../../devices/bjt.ts';
+import { Diode } from '../../devices/diode.ts';
+import { VoltageSource } from '../../devices/sources.ts';
+import { InputError } from '../../errors.ts';
+import type { PhototransistorModel } from '../../circuit/types.ts';
+import type { Scenario } from '../../scenario/types.ts';
+import { Simulator } from '../../solver/simulator.ts';
+import { LightPath } from '../light-path/light-path.ts';
+import { Microphone } from '../microphone.ts';
+import { Decimator, Upsampler } from '../oversampler.ts';
+import { IntervalTracker } from './intervals.ts';
+import { buildReport, type RenderReport, type TransistorWatch } from './report.ts';
+import { withLightInputAndSpeaker, withMicrophoneResistance } from './rewire.ts';
+import { calibratedSource, type Recording } from './source.ts';
+import { TapCapture, resolveTap, type TapRecord } from './taps.ts';
+
+export interface RenderOptions {
+  /** The decoded recording when the source is a recording. */
+  recording?: Recording;
+  /** Extra taps besides the scenario's own. */
+  taps?: string[];
+  /** Called now and then with the fraction done (0…1). */
+  onProgress?: (fraction: number) => void;
+  /** Checked between chunks; a true `aborted` stops the render with an error. */
+  signal?: { readonly aborted: boolean };
+  /** Audio-rate samples per chunk. */
+  chunkSamples?: number;
+}
+
+export interface RenderResult {
+  /** Sound pressure at the microphone, pascals, at the audio rate. */
+  sourcePascals: Float64Array;
+  /** Voltage across the speaker, volts, at the audio rate, aligned with the source. */
+  farEndVolts: Float64Array;
+  taps: TapRecord[];
+  report: RenderReport;
+}
+
+/**
+ * Runs the whole link, chunk by chunk: source pressure → microphone volts →
+ * upsampled → transmitter circuit (the microphone drives one source) → LED
+ * junction current → optical watts → light path (gain, ambient, flicker,
+ * detector noise) → receiver circuit (the phototransistor is lit) → speaker
+ * volts → decimated to the audio rate. Filter latency is compensated so the
+ * far end lines up with the source sample for sample.
+ */
+export function renderScenario(scenario: Scenario, options: RenderOptions = {}): RenderResult {
+  const startedMs = Date.now();
+  const fs = scenario.sampleRateHertz;
+  const factor = scenario.oversampling;
+  const internalRate = fs * factor;
+  const h = 1 / internalRate;
+  const source = calibratedSource(scenario.source, fs, options.recording);
+  const microphone = new Microphone({ ...scenario.microphone, sampleRateHertz: fs });
+
+  const tx = new Simulator(
+    withMicrophoneResistance(scenario.transmitter.circuit, scenario.transmitter.inputSource, scenario.microphone.outputResistanceOhms),
+    { method: scenario.method },
+  );
+  const rx = new Simulator(
+    withLightInputAndSpeaker(scenario.receiver.circuit, scenario.receiver.detector, scenario.receiver.output, scenario.receiver.speakerOhms),
+    { method: scenario.method },
+  );
+  const input = tx.system.devicesByRef.get(scenario.transmitter.inputSource);
+  if (!(input instanceof VoltageSource) || !input.drive.isUpstream) {
+    throw new InputError('transmitter.input', 'the ref of a voltage source whose wave is {"shape": "upstream"}');
+  }
+  const micDrive = input.drive;
+  const led = tx.system.devicesByRef.get(scenario.transmitter.led);
+  const detector = rx.system.devicesByRef.get(scenario.receiver.detector);
+  if (!(led instanceof Diode) || !led.isLed) throw new InputError('transmitter.led', 'the ref of an LED in the transmitter circuit');
+  if (!(detector instanceof Bjt) || !detector.light) throw new InputError('receiver.detector', 'the ref of a phototransistor in the receiver circuit');
+  const detectorPart = scenario.receiver.circuit.parts.find((p) => p.ref === scenario.receiver.detector);
+  const responsivity = (detectorPart as { model: PhototransistorModel }).model.responsivity;
+  const outPlus = rx.system.nodeIndex(scenario.receiver.output[0]) ?? -1;
+  const outMinus = rx.system.nodeIndex(scenario.receiver.output[1]) ?? -1;
+
+  const lp = scenario.lightPath;
+  const lightPath = new LightPath({
+    sampleRateHertz: internalRate,
+    channel: lp.channel,
+    ambient: lp.ambient,
+    detector: {
+      responsivityAmperesPerWatt: responsivity,
+      darkCurrentAmperes: lp.darkCurrentAmperes,
+      shotNoise: lp.shotNoise,
+      thermalNoiseOhms: lp.thermalNoiseOhms,
+      temperatureKelvin: 300,
+      seed: lp.seed,
+    },
+  });
+
+  // Operating points: the transmitter at rest, then the receiver under the resting light.
+  tx.operatingPoint();
+  const restingEmitterWatts = led.opticalWatts(tx.x);
+  const restingDetectorWatts = lightPath.gain * restingEmitterWatts + (lp.ambient?.meanPowerWatts ?? 0);
+  detector.light.upstreamValue = restingDetectorWatts + lp.darkCurrentAmperes / responsivity;
+  rx.operatingPoint();
+  const restingLedAmperes = led.junctionCurrent(tx.x);
+
+  const up = new Upsampler(factor);
+  const down = new Decimator(factor);
+  const latency = up.latencySamples + down.latencySamples;
+  const upLatencyInternal = up.latencyInternalSamples;
+  const offsetSeconds = -upLatencyInternal * h;
+  const total = source.pascals.length;
+  const padded = total + latency;
+
+  // Statistics, per internal sample.
+  const ledCutoff = new IntervalTracker(h, offsetSeconds);
+  let ledMin = Infinity;
+  let ledMax = -Infinity;
+  let ledSum = 0;
+  let ledCount = 0;
+  const watches: TransistorWatch[] = [];
+  for (const [circuit, simulator] of [
+    ['transmitter', tx],
+    ['receiver', rx],
+  ] as const) {
+    for (const device of simulator.system.devices) {
+      if (device instanceof Bjt) {
+        watches.push({
+          circuit,
+          ref: device.ref,
+          device,
+          simulator,
+          saturation: new IntervalTracker(h, offsetSeconds),
+          cutoff: new IntervalTracker(h, offsetSeconds),
+        });
+      }
+    }
+  }
+  const txWatches = watches.filter((w) => w.circuit === 'transmitter');
+  const rxWatches = watches.filter((w) => w.circuit === 'receiver');
+
+  // Taps.
+  const tapNames = [...new Set([...scenario.taps, ...(options.taps ?? [])])];
+  const captures = tapNames.map((name, i) => {
+    const tap = resolveTap(name, `taps[${i}]`, { transmitter: tx, receiver: rx, ledRef: scenario.transmitter.led });
+    return new TapCapture(name, tap.unit, tap.internalRate ? internalRate : fs, tap.source, tap.internalRate ? upLatencyInternal : 0);
+  });
+  const byStage = (stage: string): TapCapture[] => captures.filter((c) => c.source.stage === stage);
+  const sourceTaps = byStage('source');
+  const micTaps = byStage('microphone');
+  const txTaps = byStage('transmitter');
+  const emitterTaps = byStage('emitter');
+  const detectorTaps = byStage('detector');
+  const rxTaps = byStage('receiver');
+  const speakerTaps = byStage('speaker');
+
+  const chunk = options.chunkSamples ?? 1024;
+  const pascals = new Float64Array(chunk);
+  const micVolts = new Float64Array(chunk);
+  const internal = new Float64Array(chunk * factor);
+  const emitterWatts = new Float64Array(chunk * factor);
+  const detectorWatts = new Float64Array(chunk * factor);
+  const photoAmperes = new Float64Array(chunk * factor);
+  const speaker = new Float64Array(chunk * factor);
+  const farChunk = new Float64Array(chunk + 1);
+  const farEnd = new Float64Array(total);
+  let farWritten = -latency; // the first `latency` decimated samples are filter fill
+  let step = 0;
+
+  for (let start = 0; start < padded; start += chunk) {
+    if (options.signal?.aborted) throw new InputError('render', 'to run to the end', 'cancelled');
+    const n = Math.min(chunk, padded - start);
+    const inputs = pascals.subarray(0, n);
+    for (let i = 0; i < n; i++) inputs[i] = start + i < total ? source.pascals[start + i] : 0;
+    for (const tap of sourceTaps) for (let i = 0; i < n; i++) if (start + i < total) tap.push(inputs[i]);
+    const volts = micVolts.subarray(0, n);
+    microphone.process(inputs, volts);
+    for (const tap of micTaps) for (let i = 0; i < n; i++) if (start + i < total) tap.push(volts[i]);
+    const m = up.process(volts, internal);
+
+    for (let i = 0; i < m; i++) {
+      step++;
+      micDrive.upstreamValue = internal[i];
+      tx.step(h, step * h);
+      const x = tx.x;
+      const amperes = led.junctionCurrent(x);
+      emitterWatts[i] = led.opticalWatts(x);
+      const index = step - 1;
+      ledCutoff.update(index, amperes < scenario.transmitter.cutoffAmperes);
+      if (index >= upLatencyInternal && index < upLatencyInternal + total * factor) {
+        if (amperes < ledMin) ledMin = amperes;
+        if (amperes > ledMax) ledMax = amperes;
+        ledSum += amperes;
+        ledCount++;
+      }
+      for (const w of txWatches) {
+        w.saturation.update(index, w.device.isSaturated(x));
+        w.cutoff.update(index, w.device.isCutOff(x));
+      }
+      for (const tap of txTaps) tap.push((tap.source as { probe: (x: Float64Array) => number }).probe(x));
+    }
+
+    const emitted = emitterWatts.subarray(0, m);
+    const detected = detectorWatts.subarray(0, m);
+    lightPath.process(emitted, detected);
+    lightPath.photocurrent(detected, photoAmperes.subarray(0, m));
+    for (const tap of emitterTaps) for (let i = 0; i < m; i++) tap.push(emitted[i]);
+    for (const tap of detectorTaps) for (let i = 0; i < m; i++) tap.push(detected[i]);
+
+    const rxStart = step - m;
+    for (let i = 0; i < m; i++) {
+      const index = rxStart + i;
+      detector.light.upstreamValue = photoAmperes[i] / responsivity;
+      rx.step(h, (index + 1) * h);
+      const x = rx.x;
+      speaker[i] = (outPlus < 0 ? 0 : x[outPlus]) - (outMinus < 0 ? 0 : x[outMinus]);
+      for (const w of rxWatches) {
+        w.saturation.update(index, w.device.isSaturated(x));
+        w.cutoff.update(index, w.device.isCutOff(x));
+      }
+      for (const tap of rxTaps) tap.push((tap.source as { probe: (x: Float64Array) => number }).probe(x));
+    }
+
+    const produced = down.process(speaker.subarray(0, m), farChunk);
+    for (let i = 0; i < produced; i++, farWritten++) {
+      if (farWritten >= 0 && farWritten < total) {
+        farEnd[farWritten] = farChunk[i];
+        for (const tap of speakerTaps) tap.push(farChunk[i]);
+      }
+    }
+    options.onProgress?.(Math.min(1, (start + n) / padded));
+  }
+  ledCutoff.finish();
+  for (const w of watches) {
+    w.saturation.finish();
+    w.cutoff.finish();
+  }
+
+  const taps = captures.map((c) => c.finish(c.sampleRateHertz === fs ? total : total * factor));
+  const report = buildReport({
+    scenario,
+    source,
+    farEnd,
+    restingLedAmperes,
+    restingDetectorWatts,
+    led: { minimum: ledMin, maximum: ledMax, mean: ledCount > 0 ? ledSum / ledCount : 0, cutoff: ledCutoff },
+    channelGain: lightPath.gain,
+    watches,
+    solver: {
+      internalRateHertz: internalRate,
+      transmitterSteps: tx.steps,
+      receiverSteps: rx.steps,
+      newtonIterations: tx.newton.totalIterations + rx.newton.totalIterations,
+      subdividedSteps: tx.subdividedSteps + rx.subdividedSteps,
+      wallSeconds: (Date.now() - startedMs) / 1000,
+    },
+  });
+  return { sourcePascals: source.pascals, farEndVolts: farEnd, taps, report };
+}

@@ -1,0 +1,129 @@
+import type { Bjt } from '../../devices/bjt.ts';
+import type { Scenario } from '../../scenario/types.ts';
+import type { Simulator } from '../../solver/simulator.ts';
+import { pascalsToDbSpl } from '../acoustics/sound-level.ts';
+import type { IntervalTracker, TimeInterval } from './intervals.ts';
+import type { CalibratedSource } from './source.ts';
+
+export interface TransistorWatch {
+  circuit: 'transmitter' | 'receiver';
+  ref: string;
+  device: Bjt;
+  simulator: Simulator;
+  saturation: IntervalTracker;
+  cutoff: IntervalTracker;
+}
+
+interface Episodes {
+  fraction: number;
+  totalSeconds: number;
+  count: number;
+  /** The first MAX_LISTED_INTERVALS episodes, in source time. */
+  intervals: TimeInterval[];
+}
+
+export interface RenderReport {
+  durationSeconds: number;
+  sampleRateHertz: number;
+  internalRateHertz: number;
+  microphone: {
+    targetDbSpl: number;
+    levelMeasure: 'active-speech-level' | 'rms';
+    activityFactor: number | null;
+    /** Long-term rms level over the whole source, dB SPL. */
+    longTermDbSpl: number;
+    peakDbSpl: number;
+  };
+  led: {
+    ref: string;
+    restingAmperes: number;
+    minimumAmperes: number;
+    maximumAmperes: number;
+    meanAmperes: number;
+    cutoffThresholdAmperes: number;
+    cutoff: Episodes;
+  };
+  light: { channelGain: number; restingDetectorWatts: number };
+  transistors: Array<{ circuit: 'transmitter' | 'receiver'; ref: string; saturation: Episodes; cutoff: Episodes }>;
+  farEnd: {
+    rmsVolts: number;
+    peakVolts: number;
+    /** rms level in dB re 1 V. */
+    rmsDbv: number;
+    listeningGainDb: number;
+    /** Speaker voltage that reaches full scale in the far-end WAV. */
+    wavFullScaleVolts: number;
+  };
+  solver: {
+    internalRateHertz: number;
+    transmitterSteps: number;
+    receiverSteps: number;
+    newtonIterations: number;
+    subdividedSteps: number;
+    wallSeconds: number;
+  };
+}
+
+function episodes(tracker: IntervalTracker): Episodes {
+  return { fraction: tracker.fraction, totalSeconds: tracker.totalSeconds, count: tracker.count, intervals: tracker.intervals };
+}
+
+export function buildReport(input: {
+  scenario: Scenario;
+  source: CalibratedSource;
+  farEnd: Float64Array;
+  restingLedAmperes: number;
+  restingDetectorWatts: number;
+  led: { minimum: number; maximum: number; mean: number; cutoff: IntervalTracker };
+  channelGain: number;
+  watches: TransistorWatch[];
+  solver: RenderReport['solver'];
+}): RenderReport {
+  const { scenario, source, farEnd } = input;
+  let sourceSquares = 0;
+  let sourcePeak = 0;
+  for (const p of source.pascals) {
+    sourceSquares += p * p;
+    sourcePeak = Math.max(sourcePeak, Math.abs(p));
+  }
+  let farSquares = 0;
+  let farPeak = 0;
+  for (const v of farEnd) {
+    farSquares += v * v;
+    farPeak = Math.max(farPeak, Math.abs(v));
+  }
+  const n = Math.max(1, source.pascals.length);
+  const farRms = Math.sqrt(farSquares / Math.max(1, farEnd.length));
+  const gain = scenario.output.listeningGainDb;
+  return {
+    durationSeconds: source.pascals.length / scenario.sampleRateHertz,
+    sampleRateHertz: scenario.sampleRateHertz,
+    internalRateHertz: input.solver.internalRateHertz,
+    microphone: {
+      targetDbSpl: source.targetDbSpl,
+      levelMeasure: source.levelMeasure,
+      activityFactor: source.activityFactor,
+      longTermDbSpl: pascalsToDbSpl(Math.sqrt(sourceSquares / n)),
+      peakDbSpl: pascalsToDbSpl(sourcePeak),
+    },
+    led: {
+      ref: scenario.transmitter.led,
+      restingAmperes: input.restingLedAmperes,
+      minimumAmperes: input.led.minimum,
+      maximumAmperes: input.led.maximum,
+      meanAmperes: input.led.mean,
+      cutoffThresholdAmperes: scenario.transmitter.cutoffAmperes,
+      cutoff: episodes(input.led.cutoff),
+    },
+    light: { channelGain: input.channelGain, restingDetectorWatts: input.restingDetectorWatts },
+    transistors: input.watches.map((w) => ({ circuit: w.circuit, ref: w.ref, saturation: episodes(w.saturation), cutoff: episodes(w.cutoff) })),
+    farEnd: {
+      rmsVolts: farRms,
+      peakVolts: farPeak,
+      rmsDbv: farRms > 0 ? 20 * Math.log10(farRms) : -Infinity,
+      listeningGainDb: gain,
+      wavFullScaleVolts: 10 ** (-gain / 20),
+    },
+    solver: input.solver,
+  };
+}

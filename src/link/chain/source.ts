@@ -1,0 +1,94 @@
+import { pinkNoise } from '../../audio/signals/pink-noise.ts';
+import { speechLike } from '../../audio/signals/speech-like.ts';
+import { expSweep } from '../../audio/signals/sweep.ts';
+import { tone } from '../../audio/signals/tone.ts';
+import { twoTone } from '../../audio/signals/two-tone.ts';
+import { activeSpeechLevel } from '../../audio/speech-level.ts';
+import { resample } from '../../audio/resample.ts';
+import { InputError } from '../../errors.ts';
+import type { SourceLevel, SourceSettings } from '../../scenario/types.ts';
+import { dbSplToPascals, speechLevelDbSpl } from '../acoustics/sound-level.ts';
+
+/** A recording as decoded: samples at their own rate. */
+export interface Recording {
+  samples: Float64Array;
+  sampleRateHertz: number;
+  label: string;
+}
+
+/** The sound pressure at the microphone, calibrated, at the chain's audio rate. */
+export interface CalibratedSource {
+  pascals: Float64Array;
+  /** The level asked for, dB SPL. */
+  targetDbSpl: number;
+  /** How the level was measured: active speech level (ITU-T P.56) or plain rms. */
+  levelMeasure: 'active-speech-level' | 'rms';
+  /** Activity factor of speech (P.56), null for test signals. */
+  activityFactor: number | null;
+}
+
+/** The target level at the microphone in dB SPL. */
+export function targetLevelDbSpl(level: SourceLevel): number {
+  return level.kind === 'spl' ? level.dbSpl : speechLevelDbSpl(level.effort, level.distanceMetres);
+}
+
+/**
+ * Builds the source signal and scales it so its level at the microphone is
+ * the one asked for: speech (recordings, speech-like) by its active speech
+ * level, test signals by their rms.
+ */
+export function calibratedSource(settings: SourceSettings, sampleRateHertz: number, recording?: Recording): CalibratedSource {
+  const unit = 1; // generators give unit peak; calibration scales afterwards
+  let raw: Float64Array;
+  let speech = false;
+  switch (settings.kind) {
+    case 'recording': {
+      if (!recording) throw new InputError('source.file', 'a recording to be supplied', `no samples were loaded for ${settings.file}`);
+      raw =
+        recording.sampleRateHertz === sampleRateHertz ? recording.samples : resample(recording.samples, recording.sampleRateHertz, sampleRateHertz);
+      speech = true;
+      break;
+    }
+    case 'tone':
+      raw = tone({ sampleRateHertz, frequencyHertz: settings.frequencyHertz, peakAmplitude: unit, seconds: settings.seconds, fadeSeconds: 0.01 });
+      break;
+    case 'two-tone':
+      raw = twoTone({ sampleRateHertz, seconds: settings.seconds, peakAmplitude: unit, tones: settings.preset, fadeSeconds: 0.01 });
+      break;
+    case 'sweep':
+      raw = expSweep({
+        sampleRateHertz,
+        startHertz: settings.startHertz,
+        endHertz: settings.endHertz,
+        seconds: settings.seconds,
+        peakAmplitude: unit,
+        fadeSeconds: 0.01,
+      });
+      break;
+    case 'pink-noise':
+      raw = pinkNoise({ sampleRateHertz, seconds: settings.seconds, rmsAmplitude: unit, seed: settings.seed });
+      break;
+    case 'speech-like':
+      raw = speechLike({ sampleRateHertz, seconds: settings.seconds, rmsAmplitude: unit, seed: settings.seed });
+      speech = true;
+      break;
+  }
+  const targetDbSpl = targetLevelDbSpl(settings.level);
+  const targetPascals = dbSplToPascals(targetDbSpl);
+  let measuredRms: number;
+  let activityFactor: number | null = null;
+  if (speech) {
+    const level = activeSpeechLevel(raw, sampleRateHertz);
+    if (!Number.isFinite(level.activeLevelDb)) throw new InputError('source', 'a recording with some sound in it', 'it is digital silence');
+    measuredRms = 10 ** (level.activeLevelDb / 20);
+    activityFactor = level.activityFactor;
+  } else {
+    let sum = 0;
+    for (const v of raw) sum += v * v;
+    measuredRms = Math.sqrt(sum / Math.max(1, raw.length));
+  }
+  const gain = targetPascals / measuredRms;
+  const pascals = new Float64Array(raw.length);
+  for (let i = 0; i < raw.length; i++) pascals[i] = raw[i] * gain;
+  return { pascals, targetDbSpl, levelMeasure: speech ? 'active-speech-level' : 'rms', activityFactor };
+}

@@ -1,0 +1,97 @@
+import { InputError } from '../../errors.ts';
+import { resolveProbe, type Probe } from '../../solver/probes.ts';
+import type { Simulator } from '../../solver/simulator.ts';
+
+/** A captured signal. */
+export interface TapRecord {
+  name: string;
+  unit: 'V' | 'A' | 'W' | 'Pa';
+  sampleRateHertz: number;
+  samples: Float32Array;
+}
+
+/** Where a tap reads from. */
+export type TapSource =
+  | { stage: 'source' | 'microphone' | 'speaker' | 'emitter' | 'detector' }
+  | { stage: 'transmitter' | 'receiver'; probe: Probe };
+
+/** Named taps outside the circuits. */
+const FIXED_TAPS: Record<string, { stage: 'source' | 'microphone' | 'speaker' | 'emitter' | 'detector'; unit: TapRecord['unit'] }> = {
+  'source.pascals': { stage: 'source', unit: 'Pa' },
+  'microphone.volts': { stage: 'microphone', unit: 'V' },
+  'light.emitterWatts': { stage: 'emitter', unit: 'W' },
+  'light.detectorWatts': { stage: 'detector', unit: 'W' },
+  'speaker.volts': { stage: 'speaker', unit: 'V' },
+};
+
+export const FIXED_TAP_NAMES = Object.keys(FIXED_TAPS);
+
+/** Grows in chunks of Float32 so a long capture does not reallocate per sample. */
+export class TapCapture {
+  private readonly chunks: Float32Array[] = [];
+  private current: Float32Array = new Float32Array(65536);
+  private used = 0;
+  /** Samples to drop at the start (filter latency). */
+  private skip: number;
+
+  constructor(
+    readonly name: string,
+    readonly unit: TapRecord['unit'],
+    readonly sampleRateHertz: number,
+    readonly source: TapSource,
+    skipSamples: number,
+  ) {
+    this.skip = skipSamples;
+  }
+
+  push(value: number): void {
+    if (this.skip > 0) {
+      this.skip--;
+      return;
+    }
+    if (this.used === this.current.length) {
+      this.chunks.push(this.current);
+      this.current = new Float32Array(65536);
+      this.used = 0;
+    }
+    this.current[this.used++] = value;
+  }
+
+  finish(maxSamples: number): TapRecord {
+    const total = Math.min(maxSamples, this.chunks.length * 65536 + this.used);
+    const samples = new Float32Array(total);
+    let at = 0;
+    for (const chunk of [...this.chunks, this.current.subarray(0, this.used)]) {
+      const take = Math.min(chunk.length, total - at);
+      samples.set(chunk.subarray(0, take), at);
+      at += take;
+      if (at >= total) break;
+    }
+    return { name: this.name, unit: this.unit, sampleRateHertz: this.sampleRateHertz, samples };
+  }
+}
+
+/**
+ * Resolves a tap name: `source.pascals`, `microphone.volts`, `light.emitterWatts`,
+ * `light.detectorWatts`, `speaker.volts`, or `transmitter.X` / `receiver.X` with X a
+ * node, a part ref or REF.PIN of that circuit (`transmitter.led` is the signal LED's current).
+ */
+export function resolveTap(
+  name: string,
+  where: string,
+  circuits: { transmitter: Simulator; receiver: Simulator; ledRef: string },
+): { source: TapSource; unit: TapRecord['unit']; internalRate: boolean } {
+  const fixed = FIXED_TAPS[name];
+  if (fixed) return { source: { stage: fixed.stage }, unit: fixed.unit, internalRate: fixed.stage === 'emitter' || fixed.stage === 'detector' };
+  const dot = name.indexOf('.');
+  const stage = name.slice(0, dot);
+  if (dot > 0 && (stage === 'transmitter' || stage === 'receiver')) {
+    let inner = name.slice(dot + 1);
+    if (stage === 'transmitter' && inner === 'led') inner = circuits.ledRef;
+    const simulator = circuits[stage];
+    const probe = resolveProbe(simulator, inner, where);
+    const isNode = simulator.system.nodeIndex(inner) !== undefined;
+    return { source: { stage, probe }, unit: isNode ? 'V' : 'A', internalRate: true };
+  }
+  throw new InputError(where, `a tap name: ${FIXED_TAP_NAMES.join(', ')}, or transmitter.X / receiver.X (X a node, part ref or REF.PIN)`, `got "${name}"`);
+}
