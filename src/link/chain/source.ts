@@ -9,6 +9,9 @@ import { InputError } from '../../errors.ts';
 import type { SourceLevel, SourceSettings } from '../../scenario/types.ts';
 import { dbSplToPascals, speechLevelDbSpl } from '../acoustics/sound-level.ts';
 
+/** Raised-cosine fade at both ends of the test signals (against clicks), seconds. */
+const FADE_SECONDS = 0.01;
+
 /** A recording as decoded: samples at their own rate. */
 export interface Recording {
   samples: Float64Array;
@@ -50,10 +53,10 @@ export function calibratedSource(settings: SourceSettings, sampleRateHertz: numb
       break;
     }
     case 'tone':
-      raw = tone({ sampleRateHertz, frequencyHertz: settings.frequencyHertz, peakAmplitude: unit, seconds: settings.seconds, fadeSeconds: 0.01 });
+      raw = tone({ sampleRateHertz, frequencyHertz: settings.frequencyHertz, peakAmplitude: unit, seconds: settings.seconds, fadeSeconds: FADE_SECONDS });
       break;
     case 'two-tone':
-      raw = twoTone({ sampleRateHertz, seconds: settings.seconds, peakAmplitude: unit, tones: settings.preset, fadeSeconds: 0.01 });
+      raw = twoTone({ sampleRateHertz, seconds: settings.seconds, peakAmplitude: unit, tones: settings.preset, fadeSeconds: FADE_SECONDS });
       break;
     case 'sweep':
       raw = expSweep({
@@ -62,7 +65,7 @@ export function calibratedSource(settings: SourceSettings, sampleRateHertz: numb
         endHertz: settings.endHertz,
         seconds: settings.seconds,
         peakAmplitude: unit,
-        fadeSeconds: 0.01,
+        fadeSeconds: FADE_SECONDS,
       });
       break;
     case 'pink-noise':
@@ -83,9 +86,12 @@ export function calibratedSource(settings: SourceSettings, sampleRateHertz: numb
     measuredRms = 10 ** (level.activeLevelDb / 20);
     activityFactor = level.activityFactor;
   } else {
+    // The level of a test signal is its steady rms: the fades at the ends do not count.
+    const fade = Math.min(Math.round(FADE_SECONDS * sampleRateHertz), Math.floor(raw.length / 4));
     let sum = 0;
-    for (const v of raw) sum += v * v;
-    measuredRms = Math.sqrt(sum / Math.max(1, raw.length));
+    for (let i = fade; i < raw.length - fade; i++) sum += raw[i] * raw[i];
+    measuredRms = Math.sqrt(sum / Math.max(1, raw.length - 2 * fade));
+    if (!(measuredRms > 0)) throw new InputError('source', 'a test signal with some level', 'it is silent');
   }
   const gain = targetPascals / measuredRms;
   const pascals = new Float64Array(raw.length);
