@@ -102,7 +102,11 @@ export function unionByKey<Branches extends ReadonlyArray<readonly [readonly str
     .transform((input, ctx): Output => {
       const isObject = typeof input === 'object' && input !== null && !Array.isArray(input);
       const branch = isObject ? branches.find(([keys]) => keys.some((key) => Object.hasOwn(input, key))) : undefined;
-      if (!branch) return fail(ctx, expected, input === undefined ? 'missing' : `got ${describeInput(input)}`);
+      if (!branch) {
+        const fields = isObject ? Object.keys(input).map((key) => JSON.stringify(key)).join(', ') : '';
+        const got = input === undefined ? 'missing' : isObject ? `got an object with ${fields ? `the fields ${fields}` : 'no fields'}` : `got ${describeInput(input)}`;
+        return fail(ctx, expected, got);
+      }
       const result = branch[1].safeParse(input, { reportInput: true });
       if (result.success) return result.data as Output;
       for (const issue of result.error.issues) ctx.addIssue(issue as never);
