@@ -1,3 +1,4 @@
+import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { parseCircuit } from '../../src/circuit/parse.ts';
 import { loadScenario, loadScenarioText } from '../../src/scenario/load.ts';
@@ -149,5 +150,16 @@ describe('loadScenarioText', () => {
     json.transmitter.circuit.parts[2].value = '10uu';
     const error = inputErrorOf(() => loadScenarioText(JSON.stringify(json), filesResolver(FILES), 'link.json'));
     expect(error.where).toBe('link.json: transmitter.circuit.parts[2].value');
+  });
+});
+
+describe('docs/scenario-format.md', () => {
+  it('its complete example loads', () => {
+    const doc = readFileSync(new URL('../../docs/scenario-format.md', import.meta.url), 'utf8');
+    const example = /```json\n([\s\S]*?)```/.exec(doc)![1];
+    const files = { 'circuits/tx.json': JSON.stringify(transmitterCircuit()), 'circuits/rx.json': JSON.stringify(receiverCircuit()) };
+    const scenario = loadScenarioText(example, filesResolver(files), 'docs example');
+    expect(scenario.source).toEqual({ kind: 'recording', file: 'speech/talk.wav', level: { kind: 'effort', effort: 'normal', distanceMetres: 0.3 } });
+    expect(scenario.lightPath.ambient?.meanPowerWatts).toBe(1e-6);
   });
 });
