@@ -32,6 +32,7 @@ const BJT_PARAMETERS = {
   emissionCoefficient: 1,
   baseEmitterCapacitance: 0,
   baseCollectorCapacitance: 0,
+  collectorResistance: 0,
 } as const;
 
 export const MODEL_PARAMETERS: Readonly<Record<ModelKind, Readonly<Partial<Record<ModelParameterName, number | null>>>>> = {
@@ -73,6 +74,7 @@ const smallSignalNpn: BjtModel = {
   emissionCoefficient: 1,
   baseEmitterCapacitance: 20e-12, // junction plus diffusion near 1 mA, held constant
   baseCollectorCapacitance: 4e-12,
+  collectorResistance: 12, // bulk collector: VCE(sat) near 0.2 V at 10 mA, forced beta 10
 };
 
 const powerNpn: BjtModel = {
@@ -84,6 +86,7 @@ const powerNpn: BjtModel = {
   emissionCoefficient: 1,
   baseEmitterCapacitance: 300e-12,
   baseCollectorCapacitance: 80e-12,
+  collectorResistance: 0.3,
 };
 
 const redLed: LedModel = {
@@ -151,6 +154,7 @@ export const BUILT_IN_MODELS: Readonly<Record<string, Model>> = {
     emissionCoefficient: 1,
     baseEmitterCapacitance: 25e-12,
     baseCollectorCapacitance: 12e-12, // large collector-base photodiode area
+    collectorResistance: 20,
     responsivity: 0.4, // base photocurrent per watt near the silicon peak (~850 nm, quantum efficiency ≈ 0.6)
   },
 };

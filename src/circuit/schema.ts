@@ -221,6 +221,7 @@ const MODEL_PARAMETER_SCHEMAS = {
   earlyVoltage: quantity('Forward Early voltage in volts; omit for none.', 'a voltage in volts > 0', positive),
   baseEmitterCapacitance: quantity('Constant base-emitter capacitance in farads; default 0.', 'a capacitance in farads >= 0', nonNegative),
   baseCollectorCapacitance: quantity('Constant base-collector capacitance in farads; default 0.', 'a capacitance in farads >= 0', nonNegative),
+  collectorResistance: quantity('Ohmic resistance in series with the collector, ohms; default 0 (none).', 'a resistance in ohms >= 0', nonNegative),
   responsivity: quantity(
     'Base photocurrent per watt of light reaching the part, A/W (phototransistor); at most 1 (silicon stays below about 0.9).',
     'a responsivity in A/W > 0 and <= 1 (photocurrent into the base, not the collector current)',
@@ -243,6 +244,7 @@ export const modelSchema = strictObject(
     earlyVoltage: parameter.earlyVoltage.optional(),
     baseEmitterCapacitance: parameter.baseEmitterCapacitance.optional(),
     baseCollectorCapacitance: parameter.baseCollectorCapacitance.optional(),
+    collectorResistance: parameter.collectorResistance.optional(),
     responsivity: parameter.responsivity.optional(),
   },
   'Model parameters; the kind follows from the parts that use the model (optional "kind" must agree).',

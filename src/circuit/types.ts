@@ -37,6 +37,8 @@ export interface BjtModel {
   emissionCoefficient: number;
   baseEmitterCapacitance: number; // F, constant
   baseCollectorCapacitance: number; // F, constant
+  /** Ohmic resistance in series with the collector, Ω (0 = none; an addition to the Ebers–Moll core). */
+  collectorResistance: number;
 }
 
 export interface PhototransistorModel extends Omit<BjtModel, 'kind'> {

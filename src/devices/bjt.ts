@@ -4,7 +4,7 @@ import type { Integrator } from '../solver/integrator.ts';
 import { Capacitor } from './capacitor.ts';
 import { JUNCTION_GMIN_SIEMENS, type Binder, type IterationContext, type PinCurrents, type ThreeTerminal } from './device.ts';
 import { JunctionPoint, conductingVolts, criticalVolts, evaluateJunction, limitJunctionStep } from './junction.ts';
-import { voltageAt } from './resistor.ts';
+import { Resistor, voltageAt } from './resistor.ts';
 import { DriveSignal } from './wave.ts';
 
 /**
@@ -38,6 +38,8 @@ export class Bjt implements ThreeTerminal {
   private readonly emissionVolts: number;
   private readonly criticalVoltage: number;
   private readonly conductingVoltage: number;
+  /** Ohmic collector resistance between the pin and the internal collector (null = none). */
+  private readonly collectorOhmic: Resistor | null;
   private readonly baseEmitter: Capacitor | null;
   private readonly baseCollector: Capacitor | null;
   /** Light on a phototransistor, in watts. */
@@ -59,7 +61,14 @@ export class Bjt implements ThreeTerminal {
     light?: Drive,
   ) {
     this.polarity = kind === 'pnp' ? -1 : 1;
-    this.c = binder.node(pins[0]);
+    const collectorPin = binder.node(pins[0]);
+    if (model.collectorResistance > 0) {
+      this.c = binder.internalNode(`${ref}#collector`);
+      this.collectorOhmic = new Resistor(`${ref}#rc`, collectorPin, this.c, model.collectorResistance, binder);
+    } else {
+      this.c = collectorPin;
+      this.collectorOhmic = null;
+    }
     if (pins.length === 2) {
       this.b = binder.internalNode(`${ref}#base`);
       this.e = binder.node(pins[1]);
@@ -89,6 +98,7 @@ export class Bjt implements ThreeTerminal {
   }
 
   stampConstant(m: Float64Array, integrator: Integrator): void {
+    this.collectorOhmic?.stampConstant(m);
     this.baseEmitter?.stampConstant(m, integrator);
     this.baseCollector?.stampConstant(m, integrator);
   }
@@ -96,7 +106,12 @@ export class Bjt implements ThreeTerminal {
   stampStep(rhs: Float64Array, integrator: Integrator, seconds: number, sourceScale: number): void {
     this.baseEmitter?.stampStep(rhs, integrator);
     this.baseCollector?.stampStep(rhs, integrator);
-    if (this.light) this.photoAmperes = sourceScale * this.responsivity * Math.max(0, this.light.valueAt(seconds));
+    if (this.light) {
+      // The photocurrent is a current source inside the part (collector → base): fixed over the step.
+      this.photoAmperes = sourceScale * this.responsivity * Math.max(0, this.light.valueAt(seconds));
+      rhs[this.rc] -= this.photoAmperes;
+      rhs[this.rb] += this.photoAmperes;
+    }
   }
 
   load(m: Float64Array, rhs: Float64Array, x: Float64Array, context: IterationContext): void {
@@ -123,8 +138,8 @@ export class Bjt implements ThreeTerminal {
     const transport = f.amperes - r.amperes;
     const gmin = JUNCTION_GMIN_SIEMENS;
     // NPN-frame currents and their partial derivatives.
-    const ic = transport * early - r.amperes * this.inverseReverseBeta - gmin * vbc + this.photoAmperes;
-    const ib = f.amperes * this.inverseForwardBeta + r.amperes * this.inverseReverseBeta + gmin * (vbe + vbc) - this.photoAmperes;
+    const ic = transport * early - r.amperes * this.inverseReverseBeta - gmin * vbc;
+    const ib = f.amperes * this.inverseForwardBeta + r.amperes * this.inverseReverseBeta + gmin * (vbe + vbc);
     const dIcDvbe = f.siemens * early;
     const dIcDvbc = -r.siemens * early - transport * this.inverseEarlyVolts - r.siemens * this.inverseReverseBeta - gmin;
     const dIbDvbe = f.siemens * this.inverseForwardBeta + gmin;

@@ -32,7 +32,10 @@ export class DenseLu extends SlotMatrix {
           bestMagnitude = m;
         }
       }
-      if (!(bestMagnitude > 0)) return false;
+      if (!(bestMagnitude > 0)) {
+        this.singularUnknown = k;
+        return false;
+      }
       if (best !== k) {
         for (let j = 0; j < n; j++) {
           const t = a[k * n + j];

@@ -59,6 +59,7 @@ export class Newton {
       this.totalIterations++;
       if (!system.iterate(x, next)) {
         out.singular = true;
+        out.worstUnknown = system.matrix.singularUnknown;
         return out;
       }
       let worstRatio = 0;

@@ -28,10 +28,20 @@ export function solveOperatingPoint(system: CircuitSystem, newton: Newton, x: Fl
 
   outcome = newton.outcome;
   const node = outcome.worstUnknown >= 0 ? system.unknownNames[outcome.worstUnknown] : null;
+  if (outcome.singular) {
+    const where = outcome.worstUnknown >= 0 ? system.describeUnknown(outcome.worstUnknown) : 'an unknown';
+    throw new ConvergenceError(
+      `no DC operating point: the circuit matrix is singular at ${where} (voltage sources in parallel or in a loop, ` +
+        `or a node whose voltage nothing sets)`,
+      0,
+      node,
+      null,
+    );
+  }
   const part = system.mostActivePart();
   throw new ConvergenceError(
     `no DC operating point found (plain Newton, gmin stepping and source stepping all failed)` +
-      `${node ? `; node ${node} moved most` : ''}${part ? `, part ${part} most at fault` : ''}`,
+      `${node ? `; ${system.describeUnknown(outcome.worstUnknown)} moved most` : ''}${part ? `, part ${part} most at fault` : ''}`,
     0,
     node,
     part,

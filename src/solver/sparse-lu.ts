@@ -1,4 +1,5 @@
 import { SlotMatrix } from './slot-matrix.ts';
+import { generateStraightLineLu, type StraightLineLu } from './straight-line-lu.ts';
 
 /**
  * Sparse LU factorisation for the MNA matrix, with the elimination order and
@@ -14,21 +15,32 @@ import { SlotMatrix } from './slot-matrix.ts';
  */
 export class SparseLu extends SlotMatrix {
   // The compiled elimination program (built by `order`).
-  private pivotRow = new Int32Array(0);
-  private pivotCol = new Int32Array(0);
-  private pivotSlot = new Int32Array(0);
-  private lowerStart = new Int32Array(0);
-  private lowerSlot = new Int32Array(0);
-  private lowerRow = new Int32Array(0);
-  private upperStart = new Int32Array(0);
-  private upperSlot = new Int32Array(0);
-  private upperCol = new Int32Array(0);
-  private updateTarget = new Int32Array(0);
+  pivotRow = new Int32Array(0);
+  pivotCol = new Int32Array(0);
+  pivotSlot = new Int32Array(0);
+  lowerStart = new Int32Array(0);
+  lowerSlot = new Int32Array(0);
+  lowerRow = new Int32Array(0);
+  upperStart = new Int32Array(0);
+  upperSlot = new Int32Array(0);
+  upperCol = new Int32Array(0);
+  updateTarget = new Int32Array(0);
   private ordered = false;
   /** The stamped values, kept so a stale pivot order can be replaced without a restamp. */
   private backup = new Float64Array(1);
   /** How many times the pivot order has been (re)chosen. */
   orderings = 0;
+  /** The program as straight-line code (null: run the index-list loops). */
+  private generated: StraightLineLu | null = null;
+
+
+  /** `generate`: replay the elimination as generated straight-line code (the fast path) or as loops over index lists. */
+  constructor(
+    size: number,
+    private readonly generate = true,
+  ) {
+    super(size);
+  }
 
   override finalise(): void {
     super.finalise();
@@ -56,6 +68,7 @@ export class SparseLu extends SlotMatrix {
   }
 
   private eliminate(): boolean {
+    if (this.generated) return this.generated.factor(this.values);
     const v = this.values;
     const n = this.size;
     let t = 0;
@@ -88,6 +101,10 @@ export class SparseLu extends SlotMatrix {
 
   /** Solves with the factors: `rhs` (length ≥ size) is overwritten; the answer goes to `x`. */
   solve(rhs: Float64Array, x: Float64Array): void {
+    if (this.generated) {
+      this.generated.solve(this.values, rhs, x);
+      return;
+    }
     const v = this.values;
     const n = this.size;
     for (let k = 0; k < n; k++) {
@@ -152,7 +169,10 @@ export class SparseLu extends SlotMatrix {
           }
         }
       }
-      if (best < 0) return false;
+      if (best < 0) {
+        this.singularUnknown = colDone.indexOf(0);
+        return false;
+      }
       const pr = Math.floor(best / n);
       const pc = best % n;
       rows.push(pr);
@@ -232,6 +252,7 @@ export class SparseLu extends SlotMatrix {
     this.upperSlot = Int32Array.from(upperSlot);
     this.upperCol = Int32Array.from(upperCol);
     this.updateTarget = Int32Array.from(updateTarget);
+    this.generated = this.generate ? generateStraightLineLu(this, SparseLu.PIVOT_THRESHOLD) : null;
     // Fill-in slots extend the storage; stamped entries keep their slots.
     if (this.values.length < this.rowOf.length) {
       const grown = new Float64Array(this.rowOf.length);

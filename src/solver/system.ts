@@ -7,7 +7,11 @@ import { Integrator } from './integrator.ts';
 import type { SlotMatrix } from './slot-matrix.ts';
 import { SparseLu } from './sparse-lu.ts';
 
-export type LinearAlgebra = 'sparse' | 'dense';
+/**
+ * How the linear system is solved: 'sparse' (generated straight-line code, the fast path),
+ * 'sparse-loops' (the same elimination program run as loops) or 'dense' (the reference).
+ */
+export type LinearAlgebra = 'sparse' | 'sparse-loops' | 'dense';
 
 /**
  * A circuit turned into modified nodal analysis (Ho, Ruehli & Brennan, IEEE
@@ -69,7 +73,7 @@ export class CircuitSystem {
     this.nodeCount = nodeNames.length + internalNodes.length;
     this.size = this.nodeCount + branchNames.length;
     this.unknownNames = [...nodeNames, ...internalNodes, ...branchNames];
-    this.matrix = linearAlgebra === 'sparse' ? new SparseLu(this.size) : new DenseLu(this.size);
+    this.matrix = linearAlgebra === 'dense' ? new DenseLu(this.size) : new SparseLu(this.size, linearAlgebra === 'sparse');
 
     // Pass 2: the real devices, with unknowns handed out in the same order as pass 1.
     let nextInternal = nodeNames.length;
@@ -91,6 +95,14 @@ export class CircuitSystem {
     this.constantValues = new Float64Array(this.matrix.stampedSlots);
     this.stepRhs = new Float64Array(size + 1);
     this.rhs = new Float64Array(size + 1);
+  }
+
+  /** An unknown in words, for messages: "node out", "the current through V2". */
+  describeUnknown(index: number): string {
+    const name = this.unknownNames[index];
+    if (name === undefined) return 'an unknown';
+    if (name.endsWith('#current')) return `the current through ${name.slice(0, -'#current'.length)}`;
+    return name.includes('#') ? `internal node ${name}` : `node ${name}`;
   }
 
   /** Index of a named node (-1 for ground, undefined if there is no such node). */

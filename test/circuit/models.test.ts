@@ -139,6 +139,7 @@ describe('completeModel', () => {
         emissionCoefficient: 1,
         baseEmitterCapacitance: 0,
         baseCollectorCapacitance: 0,
+        collectorResistance: 0,
       },
     });
   });

@@ -86,7 +86,7 @@ describe('parseCircuit', () => {
     );
     expect(circuit.parts[0]).toMatchObject({
       modelName: 'hot-npn',
-      model: { kind: 'npn', saturationCurrent: 2e-14, forwardBeta: 300, reverseBeta: 1, earlyVoltage: 75, emissionCoefficient: 1, baseEmitterCapacitance: 0, baseCollectorCapacitance: 0 },
+      model: { kind: 'npn', saturationCurrent: 2e-14, forwardBeta: 300, reverseBeta: 1, earlyVoltage: 75, emissionCoefficient: 1, baseEmitterCapacitance: 0, baseCollectorCapacitance: 0, collectorResistance: 0 },
     });
   });
 

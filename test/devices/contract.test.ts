@@ -42,6 +42,7 @@ const BJT_BASE = {
   emissionCoefficient: 1,
   baseEmitterCapacitance: 10e-12,
   baseCollectorCapacitance: 3e-12,
+  collectorResistance: 0,
 };
 const NPN: BjtModel = { kind: 'npn', ...BJT_BASE };
 const PNP: BjtModel = { kind: 'pnp', ...BJT_BASE };

@@ -130,9 +130,8 @@ describe('hard and impossible circuits', () => {
     expect(performance.now() - started).toBeLessThan(2000);
   });
 
-  // BUG (reported): a singular matrix at DC gives "no DC operating point found (...)"
-  // without naming a node, a part or saying the matrix is singular; see the report.
-  it.fails('the parallel-sources error names the unknown or part where the matrix is singular', () => {
+  // A singular matrix at DC names where elimination broke down.
+  it('the parallel-sources error names the unknown or part where the matrix is singular', () => {
     const circuit: Circuit = {
       temperatureCelsius: 27,
       parts: [
