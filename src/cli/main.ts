@@ -1,6 +1,7 @@
 import { Command, CommanderError } from 'commander';
 import { isUserFacing } from '../errors.ts';
 import { runBias } from './bias.ts';
+import { runRender, type RenderFlags } from './render.ts';
 import { runTransientCommand, type TransientFlags } from './transient.ts';
 
 const collect = (value: string, previous: string[] = []): string[] => [...previous, value];
@@ -34,6 +35,20 @@ export async function main(argv: string[], io = defaultIo()): Promise<number> {
     .option('--method <rule>', 'integration rule: tr (trapezoidal) or bdf2', 'tr')
     .option('--steps <mode>', 'adaptive (error-controlled) or fixed', 'adaptive')
     .action((file: string, flags: TransientFlags) => runTransientCommand(file, flags, io.out));
+
+  program
+    .command('render')
+    .argument('<scenario>', 'scenario file (glowtalk.scenario/1 JSON)')
+    .description('run the whole link; write the far-end WAV, tap WAVs and report.json')
+    .option('--input <wav>', 'use this recording as the source (level from the scenario)')
+    .option('--out <dir>', 'output folder (default out/<scenario name>)')
+    .option('--tap <name>', 'capture a signal, e.g. transmitter.led or receiver.Q2.collector (repeatable)', collect)
+    .option('--format <format>', 'far-end WAV format: pcm16 or float32')
+    .option('--spl <dB>', 'talker level at the microphone in dB SPL (overrides the scenario)')
+    .option('--effort <effort>', 'vocal effort: normal, raised, loud or shout (with --distance)')
+    .option('--distance <metres>', 'talker distance from the microphone, e.g. 0.3')
+    .option('--no-progress', 'no progress bar')
+    .action((file: string, flags: RenderFlags) => runRender(file, flags, io.out));
 
   try {
     await program.parseAsync(argv, { from: 'user' });

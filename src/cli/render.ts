@@ -1,0 +1,128 @@
+import * as path from 'node:path';
+import { SingleBar } from 'cli-progress';
+import { decodeWav } from '../audio/wav-read.ts';
+import { encodeWav } from '../audio/wav-write.ts';
+import { InputError } from '../errors.ts';
+import { renderScenario } from '../link/chain/chain.ts';
+import { summariseRender } from '../link/chain/summary.ts';
+import type { Recording } from '../link/chain/source.ts';
+import { VOCAL_EFFORTS, type VocalEffort } from '../link/acoustics/sound-level.ts';
+import { loadScenarioText, settingsSummary } from '../scenario/index.ts';
+import type { Scenario } from '../scenario/types.ts';
+import { parseEngineering } from '../units/engineering.ts';
+import { readFileBytes, readFileText, writeFileAtomic } from './files.ts';
+
+export interface RenderFlags {
+  input?: string;
+  out?: string;
+  tap?: string[];
+  format?: string;
+  spl?: string;
+  effort?: string;
+  distance?: string;
+  progress?: boolean;
+}
+
+/** `glowtalk render SCENARIO`: far-end WAV, tap WAVs and report.json; a summary on the terminal. */
+export function runRender(scenarioFile: string, flags: RenderFlags, write: (text: string) => void): void {
+  const inputs: string[] = [scenarioFile];
+  const base = path.dirname(scenarioFile);
+  const scenario = loadScenarioText(
+    readFileText(scenarioFile, 'scenario'),
+    {
+      readText: (relative) => {
+        const file = path.resolve(base, relative);
+        inputs.push(file);
+        return readFileText(file, 'circuit');
+      },
+    },
+    scenarioFile,
+  );
+  const adjusted = applyFlags(scenario, flags);
+  let recording: Recording | undefined;
+  if (adjusted.source.kind === 'recording') {
+    const file = flags.input ?? path.resolve(base, adjusted.source.file);
+    inputs.push(file);
+    const decoded = decodeWav(readFileBytes(file, 'WAV'), file);
+    recording = { samples: decoded.mono, sampleRateHertz: decoded.sampleRateHertz, label: file };
+  }
+  const format = flags.format ?? adjusted.output.format;
+  if (format !== 'pcm16' && format !== 'float32') throw new InputError('--format', '"pcm16" or "float32"', `got "${format}"`);
+  const outDir = flags.out ?? path.join('out', path.basename(scenarioFile).replace(/\.json$/i, ''));
+
+  const bar = flags.progress === false || !process.stderr.isTTY ? null : new SingleBar({ format: 'rendering [{bar}] {percentage}% | {eta}s left', hideCursor: true }, undefined);
+  const startedMs = Date.now();
+  let barStarted = false;
+  const result = renderScenario(adjusted, {
+    recording,
+    taps: flags.tap,
+    onProgress: (fraction) => {
+      if (!bar) return;
+      if (!barStarted && Date.now() - startedMs > 1000) {
+        bar.start(100, 0);
+        barStarted = true;
+      }
+      if (barStarted) bar.update(Math.round(fraction * 100));
+    },
+  });
+  if (barStarted) bar?.stop();
+
+  const files: Record<string, string> = {};
+  const gain = 10 ** (adjusted.output.listeningGainDb / 20);
+  const listening = result.farEndVolts.map((v) => v * gain);
+  const farEnd = encodeWav(listening, adjusted.sampleRateHertz, format);
+  const farEndFile = path.join(outDir, 'far-end.wav');
+  writeFileAtomic(farEndFile, farEnd.bytes, inputs);
+  files['far-end'] = farEndFile;
+  const sourceFile = path.join(outDir, 'source.wav');
+  const sourcePeak = result.sourcePascals.reduce((a, v) => Math.max(a, Math.abs(v)), 0);
+  writeFileAtomic(sourceFile, encodeWav(result.sourcePascals.map((v) => v / Math.max(sourcePeak, 1e-30)), adjusted.sampleRateHertz, 'float32').bytes, inputs);
+  files.source = sourceFile;
+  for (const tap of result.taps) {
+    const file = path.join(outDir, `tap-${tap.name.replace(/[^A-Za-z0-9_.-]+/g, '_')}.wav`);
+    writeFileAtomic(file, encodeWav(Float64Array.from(tap.samples), tap.sampleRateHertz, 'float32').bytes, inputs);
+    files[`tap:${tap.name}`] = file;
+  }
+  const report = {
+    ...result.report,
+    farEnd: { ...result.report.farEnd, wavFormat: format, clippedSamples: farEnd.clippedSamples },
+    files,
+    notes: {
+      'source.wav': 'sound pressure at the microphone, normalised to its peak (full scale = peak pascals, see microphone.peakDbSpl)',
+      'tap WAVs': 'raw SI values (volts, amperes, watts, pascals) as 32-bit float at the tap\'s own rate',
+    },
+    settings: settingsSummary(adjusted),
+  };
+  const reportFile = path.join(outDir, 'report.json');
+  writeFileAtomic(reportFile, `${JSON.stringify(report, null, 2)}\n`, inputs);
+  const lines = summariseRender(result.report);
+  if (farEnd.clippedSamples > 0) lines.push(`Warning: ${farEnd.clippedSamples} far-end samples clipped in the ${format} WAV; lower output.listeningGain.`);
+  lines.push(`Files: ${outDir}/ (far-end.wav, source.wav, ${result.taps.length} tap WAVs, report.json).`);
+  write(`${lines.join('\n')}\n`);
+}
+
+/** Level overrides from the command line. */
+function applyFlags(scenario: Scenario, flags: RenderFlags): Scenario {
+  let source = scenario.source;
+  if (flags.input) source = { kind: 'recording', file: flags.input, level: source.level };
+  if (flags.spl !== undefined) {
+    const dbSpl = Number(flags.spl);
+    if (!Number.isFinite(dbSpl) || dbSpl < 0 || dbSpl > 160) throw new InputError('--spl', 'a level from 0 to 160 dB SPL', `got "${flags.spl}"`);
+    source = { ...source, level: { kind: 'spl', dbSpl } };
+  }
+  if (flags.effort !== undefined || flags.distance !== undefined) {
+    const effort = flags.effort ?? 'normal';
+    if (!(VOCAL_EFFORTS as string[]).includes(effort)) throw new InputError('--effort', VOCAL_EFFORTS.join(', '), `got "${effort}"`);
+    let distanceMetres = 1;
+    if (flags.distance !== undefined) {
+      try {
+        distanceMetres = parseEngineering(flags.distance);
+      } catch {
+        distanceMetres = NaN;
+      }
+      if (!(distanceMetres > 0.01 && distanceMetres < 100)) throw new InputError('--distance', 'a distance from 0.01 to 100 metres', `got "${flags.distance}"`);
+    }
+    source = { ...source, level: { kind: 'effort', effort: effort as VocalEffort, distanceMetres } };
+  }
+  return { ...scenario, source };
+}
