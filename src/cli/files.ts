@@ -31,6 +31,13 @@ function samePath(a: string, b: string): boolean {
   return resolve(a) === resolve(b);
 }
 
+/** Throws if writing `target` would overwrite one of `inputs`. */
+export function refuseInputOverwrite(target: string, inputs: readonly string[]): void {
+  for (const input of inputs) {
+    if (samePath(input, target)) throw new InputError(target, 'an output path different from the input files', 'it would overwrite an input');
+  }
+}
+
 /**
  * Writes output without ever clobbering an input and without leaving a half
  * file: the data goes to a temporary file beside the target, then a rename.
@@ -43,9 +50,7 @@ export class AtomicFile {
     readonly target: string,
     inputs: readonly string[],
   ) {
-    for (const input of inputs) {
-      if (samePath(input, target)) throw new InputError(target, 'an output path different from the input files', 'it would overwrite an input');
-    }
+    refuseInputOverwrite(target, inputs);
     const directory = path.dirname(path.resolve(target));
     if (!fs.existsSync(directory)) fs.mkdirSync(directory, { recursive: true });
     this.temporary = path.join(directory, `.${path.basename(target)}.${process.pid}.${Date.now()}.tmp`);

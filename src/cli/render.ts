@@ -10,7 +10,7 @@ import { VOCAL_EFFORTS, type VocalEffort } from '../link/acoustics/sound-level.t
 import { loadScenarioText, settingsSummary } from '../scenario/index.ts';
 import type { Scenario } from '../scenario/types.ts';
 import { parseEngineering } from '../units/engineering.ts';
-import { readFileBytes, readFileText, writeFileAtomic } from './files.ts';
+import { readFileBytes, readFileText, refuseInputOverwrite, writeFileAtomic } from './files.ts';
 
 export interface RenderFlags {
   input?: string;
@@ -49,6 +49,8 @@ export function runRender(scenarioFile: string, flags: RenderFlags, write: (text
   const format = flags.format ?? adjusted.output.format;
   if (format !== 'pcm16' && format !== 'float32') throw new InputError('--format', '"pcm16" or "float32"', `got "${format}"`);
   const outDir = flags.out ?? path.join('out', path.basename(scenarioFile).replace(/\.json$/i, ''));
+  // Check before the (long) render, not after it.
+  for (const name of ['far-end.wav', 'source.wav', 'report.json']) refuseInputOverwrite(path.join(outDir, name), inputs);
 
   const bar = flags.progress === false || !process.stderr.isTTY ? null : new SingleBar({ format: 'rendering [{bar}] {percentage}% | {eta}s left', hideCursor: true }, undefined);
   const startedMs = Date.now();

@@ -1,0 +1,134 @@
+import { HEADROOM_DEFAULTS, findHeadroom, type HeadroomOptions, type HeadroomResult } from '../analysis/headroom.ts';
+import { targetLevelDbSpl } from '../link/chain/source.ts';
+import { settingsSummary } from '../scenario/index.ts';
+import { createRunner, defaultOutDir, numberFlag, numberListFlag, progressBar, readScenario, shellWord, writeResults } from './analysis-common.ts';
+import { toText, type Table } from './tables.ts';
+
+export interface HeadroomFlags {
+  tolerance?: string;
+  tone?: string;
+  toneSeconds?: string;
+  thd?: string;
+  stoiBelow?: string;
+  speech?: boolean;
+  speechSeconds?: string;
+  from?: string;
+  input?: string;
+  workers?: string;
+  out?: string;
+  progress?: boolean;
+}
+
+/** `glowtalk headroom SCENARIO`: levels at which the LED cuts off, THD reaches 1/3/10 %, STOI falls. */
+export async function runHeadroom(file: string, flags: HeadroomFlags, write: (text: string) => void): Promise<void> {
+  const input = readScenario(file, flags.input);
+  const d = HEADROOM_DEFAULTS;
+  const options: HeadroomOptions = {
+    ...d,
+    toleranceDb: numberFlag(flags.tolerance, '--tolerance', d.toleranceDb, (v) => v >= 0.01 && v <= 10, 'a tolerance from 0.01 to 10 dB'),
+    toneHertz: numberFlag(flags.tone, '--tone', d.toneHertz, (v) => v >= 20 && v < input.scenario.sampleRateHertz / 2, 'a tone frequency from 20 Hz to below half the sample rate'),
+    toneSeconds: numberFlag(flags.toneSeconds, '--tone-seconds', d.toneSeconds, (v) => v >= 0.05 && v <= 10, 'a tone length from 0.05 to 10 s'),
+    thdPercents: flags.thd === undefined ? d.thdPercents : numberListFlag(flags.thd, '--thd', (v) => v > 0 && v < 1000, 'THD levels in percent, e.g. 1,3,10'),
+    stoiThreshold:
+      flags.speech === false ? null : numberFlag(flags.stoiBelow, '--stoi-below', d.stoiThreshold ?? 0.8, (v) => v > 0 && v < 1, 'a STOI value between 0 and 1'),
+    speechSeconds: numberFlag(flags.speechSeconds, '--speech-seconds', d.speechSeconds, (v) => v >= 0.5 && v <= 60, 'a speech length from 0.5 to 60 s'),
+    startDbSpl: flags.from === undefined ? null : numberFlag(flags.from, '--from', 0, (v) => v >= d.minDbSpl && v <= d.maxDbSpl, `a level from ${d.minDbSpl} to ${d.maxDbSpl} dB SPL`),
+  };
+  const runner = createRunner(flags.workers, 4);
+  const bar = progressBar(flags.progress, 'headroom');
+  const startedMs = Date.now();
+  let result: HeadroomResult;
+  try {
+    // The number of renders is not known ahead: about 4 per criterion plus the bracketing.
+    const expected = 5 * (1 + options.thdPercents.length + (options.stoiThreshold === null ? 0 : 1));
+    result = await findHeadroom(input.scenario, input.recording, runner, options, (_probe, done) => bar.update(done, Math.max(expected, done + 1)));
+  } finally {
+    bar.stop();
+    await runner.close();
+  }
+  const wallSeconds = (Date.now() - startedMs) / 1000;
+
+  const levelsTable: Table = {
+    name: 'headroom',
+    columns: [
+      { key: 'criterion' },
+      { key: 'signal' },
+      { key: 'levelDbSpl', unit: 'dB SPL' },
+      { key: 'lastPassDbSpl', unit: 'dB SPL' },
+      { key: 'firstFailDbSpl', unit: 'dB SPL' },
+      { key: 'renders' },
+      { key: 'normalTalkerMetres', unit: 'm' },
+      { key: 'shoutingTalkerMetres', unit: 'm' },
+      { key: 'note' },
+    ],
+    rows: result.criteria.map((c) => {
+      const x = c.crossing;
+      const note = x.found ? null : x.reason === 'never' ? `not reached up to ${d.maxDbSpl} dB SPL` : x.reason === 'always' ? `already at ${d.minDbSpl} dB SPL` : x.message;
+      return [
+        c.label,
+        c.signal,
+        x.found ? x.levelDb : null,
+        x.found ? x.belowDb : null,
+        x.found ? x.aboveDb : null,
+        x.evaluations,
+        c.talkerMetres?.normal ?? null,
+        c.talkerMetres?.shout ?? null,
+        note,
+      ];
+    }),
+  };
+  const metricKeys = [...new Set(result.probes.flatMap((p) => Object.keys(p.values)))];
+  const probesTable: Table = {
+    name: 'probes',
+    columns: [{ key: 'signal' }, { key: 'levelDbSpl', unit: 'dB SPL' }, ...metricKeys.map((key) => ({ key }))],
+    rows: result.probes.map((p) => [p.signal, p.levelDbSpl, ...metricKeys.map((k) => p.values[k] ?? null)]),
+  };
+
+  const scenarioDbSpl = targetLevelDbSpl(input.scenario.source.level);
+  const repeat = ['glowtalk', 'headroom', file, '--tolerance', String(options.toleranceDb), '--tone', String(options.toneHertz), '--tone-seconds', String(options.toneSeconds), '--thd', options.thdPercents.join(',')];
+  if (options.stoiThreshold === null) repeat.push('--no-speech');
+  else repeat.push('--stoi-below', String(options.stoiThreshold), '--speech-seconds', String(options.speechSeconds));
+  if (options.startDbSpl !== null) repeat.push('--from', String(options.startDbSpl));
+  if (flags.input) repeat.push('--input', flags.input);
+  const outDir = flags.out ?? defaultOutDir(file, 'headroom');
+  const report = {
+    command: 'headroom',
+    repeat: repeat.map(shellWord).join(' '),
+    settings: { scenarioFile: file, input: flags.input ?? null, options, speechSource: result.speechSource, scenario: settingsSummary(input.scenario) },
+    scenarioLevelDbSpl: scenarioDbSpl,
+    startDbSpl: result.startDbSpl,
+    cutoffEstimateDbSpl: result.cutoffEstimateDbSpl,
+    criteria: result.criteria,
+    renders: result.probes.length,
+    workers: runner.size,
+    wallSeconds,
+  };
+  const files = writeResults(outDir, 'headroom', report, [levelsTable, probesTable], input.inputs);
+
+  const lines: string[] = [];
+  lines.push(`Headroom of ${input.scenario.title ?? file}: ${options.toneHertz} Hz tone (${options.toneSeconds} s renders)${options.stoiThreshold === null ? '' : `; STOI on ${result.speechSource}`}.`);
+  lines.push(`Levels at the microphone, each within ±${options.toleranceDb} dB:`);
+  for (const c of result.criteria) {
+    const x = c.crossing;
+    const name = c.label.padEnd(18);
+    if (!x.found) {
+      lines.push(`  ${name} ${x.reason === 'never' ? `not reached up to ${d.maxDbSpl} dB SPL` : x.reason === 'always' ? `already at ${d.minDbSpl} dB SPL` : `failed: ${x.message}`}`);
+      continue;
+    }
+    const talker = c.talkerMetres ? ` = a normal talker at ${distance(c.talkerMetres.normal)}, a shout at ${distance(c.talkerMetres.shout)}` : '';
+    lines.push(`  ${name} ${x.levelDb.toFixed(2)} dB SPL${talker}`);
+  }
+  const cutoff = result.criteria[0].crossing;
+  if (cutoff.found) {
+    const margin = cutoff.levelDb - scenarioDbSpl;
+    lines.push(`The scenario's own level, ${scenarioDbSpl.toFixed(1)} dB SPL, is ${Math.abs(margin).toFixed(1)} dB ${margin >= 0 ? 'below' : 'above'} the LED cut-off (for a steady tone; speech peaks sit about 12 dB over its level).`);
+  }
+  lines.push(`${result.probes.length} renders in ${wallSeconds.toFixed(1)} s on ${runner.size} worker${runner.size === 1 ? '' : 's'}.`);
+  lines.push(`Files: ${files.join(', ')}`);
+  write(`${lines.join('\n')}\n`);
+  void toText;
+}
+
+function distance(metres: number): string {
+  return metres < 1 ? `${(metres * 100).toPrecision(2)} cm` : `${metres.toPrecision(3)} m`;
+}
