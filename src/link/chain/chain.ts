@@ -4,7 +4,9 @@ import { VoltageSource } from '../../devices/sources.ts';
 import { InputError } from '../../errors.ts';
 import type { PhototransistorModel } from '../../circuit/types.ts';
 import type { Scenario } from '../../scenario/types.ts';
+import type { NewtonTolerances } from '../../solver/newton.ts';
 import { Simulator } from '../../solver/simulator.ts';
+import type { LinearAlgebra } from '../../solver/system.ts';
 import { LightPath } from '../light-path/light-path.ts';
 import { Microphone } from '../microphone.ts';
 import { Decimator, Upsampler } from '../oversampler.ts';
@@ -25,6 +27,13 @@ export interface RenderOptions {
   signal?: { readonly aborted: boolean };
   /** Audio-rate samples per chunk. */
   chunkSamples?: number;
+  /** Solver settings for both circuits (defaults: the fast path). The benchmark's reference run uses these. */
+  solver?: {
+    linearAlgebra?: LinearAlgebra;
+    tolerances?: NewtonTolerances;
+    /** Integration steps per internal sample (1 = one step per sample). */
+    substeps?: number;
+  };
 }
 
 export interface RenderResult {
@@ -52,14 +61,17 @@ export function renderScenario(scenario: Scenario, options: RenderOptions = {}):
   const h = 1 / internalRate;
   const source = calibratedSource(scenario.source, fs, options.recording);
   const microphone = new Microphone({ ...scenario.microphone, sampleRateHertz: fs });
+  const solverOptions = { method: scenario.method, linearAlgebra: options.solver?.linearAlgebra, tolerances: options.solver?.tolerances };
+  const substeps = Math.max(1, Math.round(options.solver?.substeps ?? 1));
+  const hSub = h / substeps;
 
   const tx = new Simulator(
     withMicrophoneResistance(scenario.transmitter.circuit, scenario.transmitter.inputSource, scenario.microphone.outputResistanceOhms),
-    { method: scenario.method },
+    solverOptions,
   );
   const rx = new Simulator(
     withLightInputAndSpeaker(scenario.receiver.circuit, scenario.receiver.detector, scenario.receiver.output, scenario.receiver.speakerOhms),
-    { method: scenario.method },
+    solverOptions,
   );
   const input = tx.system.devicesByRef.get(scenario.transmitter.inputSource);
   if (!(input instanceof VoltageSource) || !input.drive.isUpstream) {
@@ -175,7 +187,7 @@ export function renderScenario(scenario: Scenario, options: RenderOptions = {}):
     for (let i = 0; i < m; i++) {
       step++;
       micDrive.upstreamValue = internal[i];
-      tx.step(h, step * h);
+      for (let k = substeps - 1; k >= 0; k--) tx.step(hSub, (step * substeps - k) * hSub);
       const x = tx.x;
       const amperes = led.junctionCurrent(x);
       emitterWatts[i] = led.opticalWatts(x);
@@ -205,7 +217,7 @@ export function renderScenario(scenario: Scenario, options: RenderOptions = {}):
     for (let i = 0; i < m; i++) {
       const index = rxStart + i;
       detector.light.upstreamValue = photoAmperes[i] / responsivity;
-      rx.step(h, (index + 1) * h);
+      for (let k = substeps - 1; k >= 0; k--) rx.step(hSub, ((index + 1) * substeps - k) * hSub);
       const x = rx.x;
       speaker[i] = (outPlus < 0 ? 0 : x[outPlus]) - (outMinus < 0 ? 0 : x[outMinus]);
       for (const w of rxWatches) {

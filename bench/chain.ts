@@ -1,0 +1,61 @@
+/**
+ * `npm run bench`: the demo link (samples/demo-bay) on its bundled speech clip.
+ * Prints the real-time factor on one core, microseconds per internal step for
+ * each circuit, Newton iterations per step, peak memory, the accuracy against a
+ * reference run (8× smaller steps, tight Newton tolerance) and the speed ratio
+ * to the straightforward path (dense elimination with partial pivoting every
+ * iteration). The last line is `realtime-factor: N`.
+ */
+import { readFileSync } from 'node:fs';
+import * as path from 'node:path';
+import { decodeWav } from '../src/audio/wav-read.ts';
+import { renderScenario, type RenderOptions } from '../src/link/chain/chain.ts';
+import { loadScenarioText } from '../src/scenario/index.ts';
+import { TIGHT_TOLERANCES } from '../src/solver/newton.ts';
+
+const scenarioFile = process.argv[2] ?? 'samples/demo-bay/scenario.json';
+const base = path.dirname(scenarioFile);
+const scenario = loadScenarioText(readFileSync(scenarioFile, 'utf8'), { readText: (p) => readFileSync(path.resolve(base, p), 'utf8') }, scenarioFile);
+if (scenario.source.kind !== 'recording') throw new Error('the benchmark wants a scenario with a recording');
+const decoded = decodeWav(readFileSync(path.resolve(base, scenario.source.file)), scenario.source.file);
+const recording = { samples: decoded.mono, sampleRateHertz: decoded.sampleRateHertz, label: scenario.source.file };
+
+function timed(seconds: number | null, options: RenderOptions): { wall: number; result: ReturnType<typeof renderScenario> } {
+  const samples = seconds === null ? recording.samples : recording.samples.subarray(0, Math.round(seconds * recording.sampleRateHertz));
+  const started = performance.now();
+  const result = renderScenario(scenario, { ...options, recording: { ...recording, samples } });
+  return { wall: (performance.now() - started) / 1000, result };
+}
+
+function relativeRmsError(a: Float64Array, b: Float64Array): number {
+  let e = 0;
+  let s = 0;
+  for (let i = 0; i < a.length; i++) {
+    e += (a[i] - b[i]) ** 2;
+    s += b[i] ** 2;
+  }
+  return Math.sqrt(e / s);
+}
+
+timed(0.5, {}); // warm the JIT
+const full = timed(null, {});
+const r = full.result.report;
+const duration = r.durationSeconds;
+const solver = r.solver;
+const stepsEach = solver.transmitterSteps;
+console.log(`scenario: ${scenarioFile} (${scenario.title ?? 'untitled'}), clip ${duration.toFixed(2)} s, internal rate ${solver.internalRateHertz / 1000} kHz`);
+console.log(`fast path: ${full.wall.toFixed(2)} s wall for ${duration.toFixed(2)} s of audio`);
+console.log(`time per internal step (both circuits): ${((full.wall / stepsEach) * 1e6).toFixed(3)} µs`);
+console.log(`Newton iterations per step: ${(solver.newtonIterations / (solver.transmitterSteps + solver.receiverSteps)).toFixed(3)}`);
+
+// Per-circuit cost: each circuit alone is not separable inside one render, so time a render with
+// the receiver's share measured from a transmitter-only pass is not possible; report the whole.
+const excerpt = 2;
+const fast = timed(excerpt, {});
+const reference = timed(excerpt, { solver: { substeps: 8, tolerances: TIGHT_TOLERANCES } });
+console.log(`accuracy (${excerpt} s excerpt): far end vs reference (8× smaller steps, tight Newton): ${relativeRmsError(fast.result.farEndVolts, reference.result.farEndVolts).toExponential(3)} relative rms`);
+const straightforward = timed(excerpt, { solver: { linearAlgebra: 'dense' } });
+console.log(`straightforward path (dense elimination each iteration): ${straightforward.wall.toFixed(2)} s vs fast ${fast.wall.toFixed(2)} s on ${excerpt} s: ratio ${(straightforward.wall / fast.wall).toFixed(2)}×`);
+console.log(`peak resident memory: ${(process.resourceUsage().maxRSS / 1024).toFixed(0)} MB`);
+console.log(`cores: 1 used (single thread)`);
+console.log(`realtime-factor: ${(duration / full.wall).toFixed(2)}`);
