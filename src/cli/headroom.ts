@@ -1,8 +1,8 @@
-import { HEADROOM_DEFAULTS, findHeadroom, type HeadroomOptions, type HeadroomResult } from '../analysis/headroom.ts';
+import { HEADROOM_DEFAULTS, findHeadroom, type CriterionResult, type HeadroomOptions, type HeadroomResult } from '../analysis/headroom.ts';
 import { targetLevelDbSpl } from '../link/chain/source.ts';
 import { settingsSummary } from '../scenario/index.ts';
 import { createRunner, defaultOutDir, numberFlag, numberListFlag, progressBar, readScenario, shellWord, writeResults } from './analysis-common.ts';
-import { toText, type Table } from './tables.ts';
+import type { Table } from './tables.ts';
 
 export interface HeadroomFlags {
   tolerance?: string;
@@ -63,7 +63,7 @@ export async function runHeadroom(file: string, flags: HeadroomFlags, write: (te
     ],
     rows: result.criteria.map((c) => {
       const x = c.crossing;
-      const note = x.found ? null : x.reason === 'never' ? `not reached up to ${d.maxDbSpl} dB SPL` : x.reason === 'always' ? `already at ${d.minDbSpl} dB SPL` : x.message;
+      const note = x.found ? null : notFound(x);
       return [
         c.label,
         c.signal,
@@ -112,7 +112,7 @@ export async function runHeadroom(file: string, flags: HeadroomFlags, write: (te
     const x = c.crossing;
     const name = c.label.padEnd(18);
     if (!x.found) {
-      lines.push(`  ${name} ${x.reason === 'never' ? `not reached up to ${d.maxDbSpl} dB SPL` : x.reason === 'always' ? `already at ${d.minDbSpl} dB SPL` : `failed: ${x.message}`}`);
+      lines.push(`  ${name} ${notFound(x)}`);
       continue;
     }
     const talker = c.talkerMetres ? ` = a normal talker at ${distance(c.talkerMetres.normal)}, a shout at ${distance(c.talkerMetres.shout)}` : '';
@@ -121,12 +121,19 @@ export async function runHeadroom(file: string, flags: HeadroomFlags, write: (te
   const cutoff = result.criteria[0].crossing;
   if (cutoff.found) {
     const margin = cutoff.levelDb - scenarioDbSpl;
-    lines.push(`The scenario's own level, ${scenarioDbSpl.toFixed(1)} dB SPL, is ${Math.abs(margin).toFixed(1)} dB ${margin >= 0 ? 'below' : 'above'} the LED cut-off (for a steady tone; speech peaks sit about 12 dB over its level).`);
+    lines.push(`The scenario's own level, ${scenarioDbSpl.toFixed(1)} dB SPL, is ${Math.abs(margin).toFixed(1)} dB ${margin >= 0 ? 'below' : 'above'} the LED cut-off of a steady tone (speech peaks rise well above their average level).`);
   }
   lines.push(`${result.probes.length} renders in ${wallSeconds.toFixed(1)} s on ${runner.size} worker${runner.size === 1 ? '' : 's'}.`);
   lines.push(`Files: ${files.join(', ')}`);
   write(`${lines.join('\n')}\n`);
-  void toText;
+}
+
+/** Why a criterion has no level. */
+function notFound(crossing: CriterionResult['crossing']): string {
+  if (crossing.found) return '';
+  if ('message' in crossing) return `failed: ${crossing.message}`;
+  const d = HEADROOM_DEFAULTS;
+  return crossing.reason === 'never' ? `not reached up to ${d.maxDbSpl} dB SPL` : `already met at ${d.minDbSpl} dB SPL`;
 }
 
 function distance(metres: number): string {
