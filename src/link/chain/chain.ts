@@ -170,6 +170,8 @@ export function renderScenario(scenario: Scenario, options: RenderOptions = {}):
   const speaker = new Float64Array(chunk * factor);
   const farChunk = new Float64Array(chunk + 1);
   const farEnd = new Float64Array(total);
+  let previousMicVolts = 0;
+  let previousLightWatts = detector.light.upstreamValue;
   let farWritten = -latency; // the first `latency` decimated samples are filter fill
   let step = 0;
 
@@ -186,8 +188,12 @@ export function renderScenario(scenario: Scenario, options: RenderOptions = {}):
 
     for (let i = 0; i < m; i++) {
       step++;
-      micDrive.upstreamValue = internal[i];
-      for (let k = substeps - 1; k >= 0; k--) tx.step(hSub, (step * substeps - k) * hSub);
+      // Substeps see the input interpolated linearly, as the trapezoidal rule assumes between samples.
+      for (let k = substeps - 1; k >= 0; k--) {
+        micDrive.upstreamValue = internal[i] - (k / substeps) * (internal[i] - previousMicVolts);
+        tx.step(hSub, (step * substeps - k) * hSub);
+      }
+      previousMicVolts = internal[i];
       const x = tx.x;
       const amperes = led.junctionCurrent(x);
       emitterWatts[i] = led.opticalWatts(x);
@@ -216,8 +222,12 @@ export function renderScenario(scenario: Scenario, options: RenderOptions = {}):
     const rxStart = step - m;
     for (let i = 0; i < m; i++) {
       const index = rxStart + i;
-      detector.light.upstreamValue = photoAmperes[i] / responsivity;
-      for (let k = substeps - 1; k >= 0; k--) rx.step(hSub, ((index + 1) * substeps - k) * hSub);
+      const watts = photoAmperes[i] / responsivity;
+      for (let k = substeps - 1; k >= 0; k--) {
+        detector.light.upstreamValue = watts - (k / substeps) * (watts - previousLightWatts);
+        rx.step(hSub, ((index + 1) * substeps - k) * hSub);
+      }
+      previousLightWatts = watts;
       const x = rx.x;
       speaker[i] = (outPlus < 0 ? 0 : x[outPlus]) - (outMinus < 0 ? 0 : x[outMinus]);
       for (const w of rxWatches) {
