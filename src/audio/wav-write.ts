@@ -58,9 +58,26 @@ export function encodeWav(samples: Float64Array | Float64Array[], sampleRateHert
     }
   });
 
+  const { bytes, dataAt, blockAlign } = wavLayout(frames, channels.length, sampleRateHertz, format);
+  const view = new DataView(bytes.buffer);
+  const clippedSamples = writeSamples(view, dataAt, channels, format, blockAlign);
+  return { bytes, clippedSamples };
+}
+
+/**
+ * A whole file's bytes with the header filled in and the sample data left
+ * zero: `dataAt` is where the samples start. With `headerOnly`, just the header
+ * (for writing the samples chunk by chunk after it).
+ */
+export function wavLayout(
+  frames: number,
+  channelCount: number,
+  sampleRateHertz: number,
+  format: WavSampleFormat,
+  headerOnly = false,
+): { bytes: Uint8Array; dataAt: number; blockAlign: number; totalBytes: number } {
   const isFloat = format === 'float32' || format === 'float64';
   const bits = BITS[format];
-  const channelCount = channels.length;
   const extensible = channelCount > 2;
   const blockAlign = (channelCount * bits) / 8;
   const dataSize = frames * blockAlign;
@@ -72,7 +89,7 @@ export function encodeWav(samples: Float64Array | Float64Array[], sampleRateHert
     throw new InputError('samples', 'under 4 GiB of sample data (RIFF size limit)', `${dataSize} bytes needed`);
   }
 
-  const bytes = new Uint8Array(total);
+  const bytes = new Uint8Array(headerOnly ? headerSize : total);
   const view = new DataView(bytes.buffer);
   const ascii = (at: number, text: string): void => {
     for (let i = 0; i < 4; i++) bytes[at + i] = text.charCodeAt(i);
@@ -107,11 +124,11 @@ export function encodeWav(samples: Float64Array | Float64Array[], sampleRateHert
   view.setUint32(at + 4, dataSize, true);
   at += 8;
 
-  const clippedSamples = writeSamples(view, at, channels, format, blockAlign);
-  return { bytes, clippedSamples };
+  return { bytes, dataAt: at, blockAlign, totalBytes: total };
 }
 
-function writeSamples(view: DataView, dataAt: number, channels: Float64Array[], format: WavSampleFormat, blockAlign: number): number {
+/** Writes interleaved samples at `dataAt`; returns how many saturated. */
+export function writeSamples(view: DataView, dataAt: number, channels: Float64Array[], format: WavSampleFormat, blockAlign: number): number {
   const bytesPerSample = BITS[format] / 8;
   const scale = 2 ** (BITS[format] - 1);
   const lowest = -scale;

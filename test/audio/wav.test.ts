@@ -2,6 +2,7 @@ import { describe, expect, it } from 'vitest';
 import * as wavefileNs from 'wavefile';
 import { decodeWav } from '../../src/audio/wav-read.ts';
 import { encodeWav, WAV_SAMPLE_FORMATS, type WavSampleFormat } from '../../src/audio/wav-write.ts';
+import { WavStreamEncoder } from '../../src/audio/wav-stream.ts';
 import { InputError } from '../../src/errors.ts';
 import { SeededRandom } from '../../src/numeric/random.ts';
 
@@ -283,5 +284,24 @@ describe('encodeWav', () => {
     expect(errorOf(() => encodeWav([new Float64Array(2), new Float64Array(3)], 8000, 'pcm16')).where).toBe('samples[1]');
     expect(errorOf(() => encodeWav(new Float64Array(0), 8000, 'pcm16')).expected).toBe('at least one sample frame');
     expect(errorOf(() => encodeWav(new Float64Array(2), 8000, 'mp3' as WavSampleFormat)).where).toBe('format');
+  });
+});
+
+describe('WavStreamEncoder', () => {
+  it('writes, chunk by chunk, the same bytes as encodeWav writes in one go', () => {
+    const samples = Float64Array.from({ length: 1001 }, (_, i) => Math.sin(i / 7) * 1.2);
+    for (const format of ['pcm8', 'pcm16', 'pcm24', 'float32', 'float64'] as const) {
+      const whole = encodeWav(samples, 22050, format);
+      const stream = new WavStreamEncoder(samples.length, 22050, format);
+      const parts = [stream.header(), stream.encode(samples.subarray(0, 333)), stream.encode(samples.subarray(333)), stream.trailer()];
+      const joined = new Uint8Array(parts.reduce((n, p) => n + p.length, 0));
+      let at = 0;
+      for (const p of parts) {
+        joined.set(p, at);
+        at += p.length;
+      }
+      expect(joined).toEqual(whole.bytes);
+      expect(stream.clippedSamples).toBe(whole.clippedSamples);
+    }
   });
 });
