@@ -10,7 +10,8 @@ import { VOCAL_EFFORTS, type VocalEffort } from '../link/acoustics/sound-level.t
 import { loadScenarioText, settingsSummary } from '../scenario/index.ts';
 import type { Scenario } from '../scenario/types.ts';
 import { parseEngineering } from '../units/engineering.ts';
-import { readFileBytes, readFileText, refuseInputOverwrite, writeFileAtomic } from './files.ts';
+import { AtomicFile, readFileBytes, readFileText, refuseInputOverwrite, writeFileAtomic } from './files.ts';
+import { WavStreamEncoder } from '../audio/wav-stream.ts';
 
 export interface RenderFlags {
   input?: string;
@@ -55,43 +56,71 @@ export function runRender(scenarioFile: string, flags: RenderFlags, write: (text
   const bar = flags.progress === false || !process.stderr.isTTY ? null : new SingleBar({ format: 'rendering [{bar}] {percentage}% | {eta}s left', hideCursor: true }, undefined);
   const startedMs = Date.now();
   let barStarted = false;
-  const result = renderScenario(adjusted, {
-    recording,
-    taps: flags.tap,
-    onProgress: (fraction) => {
-      if (!bar) return;
-      if (!barStarted && Date.now() - startedMs > 1000) {
-        bar.start(100, 0);
-        barStarted = true;
-      }
-      if (barStarted) bar.update(Math.round(fraction * 100));
-    },
-  });
-  if (barStarted) bar?.stop();
+  // The far end and the taps stream to their files as they are rendered (memory stays flat).
+  const writers = new Map<string, { file: AtomicFile; encoder: WavStreamEncoder; path: string }>();
+  const open = (key: string, file: string, frames: number, rate: number, wavFormat: 'pcm16' | 'float32') => {
+    const encoder = new WavStreamEncoder(frames, rate, wavFormat);
+    const atomic = new AtomicFile(file, inputs);
+    atomic.write(encoder.header());
+    writers.set(key, { file: atomic, encoder, path: file });
+  };
+  const gain = 10 ** (adjusted.output.listeningGainDb / 20);
+  const listening = new Float64Array(4096);
+  let result;
+  try {
+    result = renderScenario(adjusted, {
+      recording,
+      taps: flags.tap,
+      onStart: (info) => {
+        open('far-end', path.join(outDir, 'far-end.wav'), info.farEndSamples, info.sampleRateHertz, format);
+        for (const tap of info.taps) {
+          open(`tap:${tap.name}`, path.join(outDir, `tap-${tap.name.replace(/[^A-Za-z0-9_.-]+/g, '_')}.wav`), tap.samples, tap.sampleRateHertz, 'float32');
+        }
+      },
+      onFarEnd: (chunk) => {
+        const w = writers.get('far-end')!;
+        const scaled = chunk.length <= listening.length ? listening.subarray(0, chunk.length) : new Float64Array(chunk.length);
+        for (let i = 0; i < chunk.length; i++) scaled[i] = chunk[i] * gain;
+        w.file.write(w.encoder.encode(scaled));
+      },
+      onTap: (name, block) => {
+        const w = writers.get(`tap:${name}`)!;
+        w.file.write(w.encoder.encode(block));
+      },
+      onProgress: (fraction) => {
+        if (!bar) return;
+        if (!barStarted && Date.now() - startedMs > 1000) {
+          bar.start(100, 0);
+          barStarted = true;
+        }
+        if (barStarted) bar.update(Math.round(fraction * 100));
+      },
+    });
+    for (const w of writers.values()) {
+      w.file.write(w.encoder.trailer());
+      w.file.commit();
+    }
+  } catch (error) {
+    for (const w of writers.values()) w.file.abandon();
+    throw error;
+  } finally {
+    if (barStarted) bar?.stop();
+  }
 
   const files: Record<string, string> = {};
-  const gain = 10 ** (adjusted.output.listeningGainDb / 20);
-  const listening = result.farEndVolts.map((v) => v * gain);
-  const farEnd = encodeWav(listening, adjusted.sampleRateHertz, format);
-  const farEndFile = path.join(outDir, 'far-end.wav');
-  writeFileAtomic(farEndFile, farEnd.bytes, inputs);
-  files['far-end'] = farEndFile;
+  for (const [key, w] of writers) files[key] = w.path;
+  const farEnd = writers.get('far-end')!.encoder;
   const sourceFile = path.join(outDir, 'source.wav');
   const sourcePeak = result.sourcePascals.reduce((a, v) => Math.max(a, Math.abs(v)), 0);
   writeFileAtomic(sourceFile, encodeWav(result.sourcePascals.map((v) => v / Math.max(sourcePeak, 1e-30)), adjusted.sampleRateHertz, 'float32').bytes, inputs);
   files.source = sourceFile;
-  for (const tap of result.taps) {
-    const file = path.join(outDir, `tap-${tap.name.replace(/[^A-Za-z0-9_.-]+/g, '_')}.wav`);
-    writeFileAtomic(file, encodeWav(Float64Array.from(tap.samples), tap.sampleRateHertz, 'float32').bytes, inputs);
-    files[`tap:${tap.name}`] = file;
-  }
   const report = {
     ...result.report,
     farEnd: { ...result.report.farEnd, wavFormat: format, clippedSamples: farEnd.clippedSamples },
     files,
     notes: {
       'source.wav': 'sound pressure at the microphone, normalised to its peak (full scale = peak pascals, see microphone.peakDbSpl)',
-      'tap WAVs': 'raw SI values (volts, amperes, watts, pascals) as 32-bit float at the tap\'s own rate',
+      'tap WAVs': "raw SI values (volts, amperes, watts, pascals) as 32-bit float at the tap's own rate",
     },
     settings: settingsSummary(adjusted),
   };
@@ -99,7 +128,7 @@ export function runRender(scenarioFile: string, flags: RenderFlags, write: (text
   writeFileAtomic(reportFile, `${JSON.stringify(report, null, 2)}\n`, inputs);
   const lines = summariseRender(result.report);
   if (farEnd.clippedSamples > 0) lines.push(`Warning: ${farEnd.clippedSamples} far-end samples clipped in the ${format} WAV; lower output.listeningGain.`);
-  lines.push(`Files: ${outDir}/ (far-end.wav, source.wav, ${result.taps.length} tap WAVs, report.json).`);
+  lines.push(`Files: ${outDir}/ (far-end.wav, source.wav, ${writers.size - 1} tap WAVs, report.json).`);
   write(`${lines.join('\n')}\n`);
 }
 

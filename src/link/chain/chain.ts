@@ -27,6 +27,12 @@ export interface RenderOptions {
   signal?: { readonly aborted: boolean };
   /** Audio-rate samples per chunk. */
   chunkSamples?: number;
+  /** Called once before processing: how many samples the far end and each tap will have. */
+  onStart?: (info: { farEndSamples: number; sampleRateHertz: number; taps: Array<{ name: string; samples: number; sampleRateHertz: number }> }) => void;
+  /** Receives the far end chunk by chunk (volts, aligned); then the result's farEndVolts is empty. */
+  onFarEnd?: (chunk: Float64Array) => void;
+  /** Receives tap blocks as they fill; then the result's tap records are empty. */
+  onTap?: (name: string, block: Float32Array) => void;
   /** Solver settings for both circuits (defaults: the fast path). The benchmark's reference run uses these. */
   solver?: {
     linearAlgebra?: LinearAlgebra;
@@ -149,7 +155,20 @@ export function renderScenario(scenario: Scenario, options: RenderOptions = {}):
   const tapNames = [...new Set([...scenario.taps, ...(options.taps ?? [])])];
   const captures = tapNames.map((name, i) => {
     const tap = resolveTap(name, `taps[${i}]`, { transmitter: tx, receiver: rx, ledRef: scenario.transmitter.led });
-    return new TapCapture(name, tap.unit, tap.internalRate ? internalRate : fs, tap.source, tap.internalRate ? upLatencyInternal : 0);
+    return new TapCapture(
+      name,
+      tap.unit,
+      tap.internalRate ? internalRate : fs,
+      tap.source,
+      tap.internalRate ? upLatencyInternal : 0,
+      tap.internalRate ? total * factor : total,
+      options.onTap,
+    );
+  });
+  options.onStart?.({
+    farEndSamples: total,
+    sampleRateHertz: fs,
+    taps: captures.map((c) => ({ name: c.name, samples: c.sampleRateHertz === fs ? total : total * factor, sampleRateHertz: c.sampleRateHertz })),
   });
   const byStage = (stage: string): TapCapture[] => captures.filter((c) => c.source.stage === stage);
   const sourceTaps = byStage('source');
@@ -169,7 +188,8 @@ export function renderScenario(scenario: Scenario, options: RenderOptions = {}):
   const photoAmperes = new Float64Array(chunk * factor);
   const speaker = new Float64Array(chunk * factor);
   const farChunk = new Float64Array(chunk + 1);
-  const farEnd = new Float64Array(total);
+  const farEnd = new Float64Array(options.onFarEnd ? 0 : total);
+  const farStats = { squares: 0, peak: 0, count: 0 };
   let previousMicVolts = 0;
   let previousLightWatts = detector.light.upstreamValue;
   let farWritten = -latency; // the first `latency` decimated samples are filter fill
@@ -238,12 +258,20 @@ export function renderScenario(scenario: Scenario, options: RenderOptions = {}):
     }
 
     const produced = down.process(speaker.subarray(0, m), farChunk);
-    for (let i = 0; i < produced; i++, farWritten++) {
-      if (farWritten >= 0 && farWritten < total) {
-        farEnd[farWritten] = farChunk[i];
-        for (const tap of speakerTaps) tap.push(farChunk[i]);
-      }
+    const from = Math.max(0, -farWritten);
+    const to = Math.min(produced, total - farWritten);
+    for (let i = from; i < to; i++) {
+      const v = farChunk[i];
+      farStats.squares += v * v;
+      if (Math.abs(v) > farStats.peak) farStats.peak = Math.abs(v);
+      for (const tap of speakerTaps) tap.push(v);
     }
+    if (to > from) {
+      if (options.onFarEnd) options.onFarEnd(farChunk.slice(from, to));
+      else farEnd.set(farChunk.subarray(from, to), farWritten + from);
+      farStats.count += to - from;
+    }
+    farWritten += produced;
     options.onProgress?.(Math.min(1, (start + n) / padded));
   }
   ledCutoff.finish();
@@ -252,11 +280,11 @@ export function renderScenario(scenario: Scenario, options: RenderOptions = {}):
     w.cutoff.finish();
   }
 
-  const taps = captures.map((c) => c.finish(c.sampleRateHertz === fs ? total : total * factor));
+  const taps = captures.map((c) => c.finish());
   const report = buildReport({
     scenario,
     source,
-    farEnd,
+    farEnd: { rmsVolts: Math.sqrt(farStats.squares / Math.max(1, farStats.count)), peakVolts: farStats.peak },
     restingLedAmperes,
     restingDetectorWatts,
     led: { minimum: ledMin, maximum: ledMax, mean: ledCount > 0 ? ledSum / ledCount : 0, cutoff: ledCutoff },

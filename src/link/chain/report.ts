@@ -71,7 +71,7 @@ function episodes(tracker: IntervalTracker): Episodes {
 export function buildReport(input: {
   scenario: Scenario;
   source: CalibratedSource;
-  farEnd: Float64Array;
+  farEnd: { rmsVolts: number; peakVolts: number };
   restingLedAmperes: number;
   restingDetectorWatts: number;
   led: { minimum: number; maximum: number; mean: number; cutoff: IntervalTracker };
@@ -86,14 +86,9 @@ export function buildReport(input: {
     sourceSquares += p * p;
     sourcePeak = Math.max(sourcePeak, Math.abs(p));
   }
-  let farSquares = 0;
-  let farPeak = 0;
-  for (const v of farEnd) {
-    farSquares += v * v;
-    farPeak = Math.max(farPeak, Math.abs(v));
-  }
   const n = Math.max(1, source.pascals.length);
-  const farRms = Math.sqrt(farSquares / Math.max(1, farEnd.length));
+  const farRms = farEnd.rmsVolts;
+  const farPeak = farEnd.peakVolts;
   const gain = scenario.output.listeningGainDb;
   return {
     durationSeconds: source.pascals.length / scenario.sampleRateHertz,

@@ -34,14 +34,21 @@ export class TapCapture {
   /** Samples to drop at the start (filter latency). */
   private skip: number;
 
+  /** Samples still to take (the rest of the run is past the end of the source). */
+  private remaining: number;
+
   constructor(
     readonly name: string,
     readonly unit: TapRecord['unit'],
     readonly sampleRateHertz: number,
     readonly source: TapSource,
     skipSamples: number,
+    maxSamples: number,
+    /** When given, full blocks go here instead of being kept (memory stays flat). */
+    private readonly sink?: (name: string, block: Float32Array) => void,
   ) {
     this.skip = skipSamples;
+    this.remaining = maxSamples;
   }
 
   push(value: number): void {
@@ -49,16 +56,25 @@ export class TapCapture {
       this.skip--;
       return;
     }
+    if (this.remaining === 0) return;
+    this.remaining--;
     if (this.used === this.current.length) {
-      this.chunks.push(this.current);
+      if (this.sink) this.sink(this.name, this.current);
+      else this.chunks.push(this.current);
       this.current = new Float32Array(65536);
       this.used = 0;
     }
     this.current[this.used++] = value;
   }
 
-  finish(maxSamples: number): TapRecord {
-    const total = Math.min(maxSamples, this.chunks.length * 65536 + this.used);
+  /** The captured record; with a sink, the last block goes to the sink and the record is empty. */
+  finish(): TapRecord {
+    if (this.sink) {
+      if (this.used > 0) this.sink(this.name, this.current.subarray(0, this.used));
+      this.used = 0;
+      return { name: this.name, unit: this.unit, sampleRateHertz: this.sampleRateHertz, samples: new Float32Array(0) };
+    }
+    const total = this.chunks.length * 65536 + this.used;
     const samples = new Float32Array(total);
     let at = 0;
     for (const chunk of [...this.chunks, this.current.subarray(0, this.used)]) {
