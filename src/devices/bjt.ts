@@ -209,18 +209,16 @@ export class Bjt implements ThreeTerminal {
     return classifyRegion(vbe > this.conductingVoltage, vbc > this.conductingVoltage);
   }
 
-  /** True when both junctions conduct (no allocation: for per-step statistics). */
-  isSaturated(x: Float64Array): boolean {
+  /**
+   * The region as a code without allocating (for per-step statistics):
+   * REGION_ACTIVE, REGION_SATURATION, REGION_CUTOFF or REGION_REVERSE.
+   */
+  regionCode(x: Float64Array): number {
     const vb = voltageAt(x, this.b);
     const p = this.polarity;
-    return p * (vb - voltageAt(x, this.e)) > this.conductingVoltage && p * (vb - voltageAt(x, this.c)) > this.conductingVoltage;
-  }
-
-  /** True when neither junction conducts (no allocation: for per-step statistics). */
-  isCutOff(x: Float64Array): boolean {
-    const vb = voltageAt(x, this.b);
-    const p = this.polarity;
-    return p * (vb - voltageAt(x, this.e)) <= this.conductingVoltage && p * (vb - voltageAt(x, this.c)) <= this.conductingVoltage;
+    const emitterOn = p * (vb - voltageAt(x, this.e)) > this.conductingVoltage;
+    const collectorOn = p * (vb - voltageAt(x, this.c)) > this.conductingVoltage;
+    return emitterOn ? (collectorOn ? REGION_SATURATION : REGION_ACTIVE) : collectorOn ? REGION_REVERSE : REGION_CUTOFF;
   }
 
   /** The junction voltage above which this transistor's junctions count as conducting. */
@@ -228,6 +226,11 @@ export class Bjt implements ThreeTerminal {
     return this.conductingVoltage;
   }
 }
+
+export const REGION_ACTIVE = 0;
+export const REGION_SATURATION = 1;
+export const REGION_CUTOFF = 2;
+export const REGION_REVERSE = 3;
 
 export function classifyRegion(baseEmitterOn: boolean, baseCollectorOn: boolean): 'active' | 'saturation' | 'cutoff' | 'reverse' {
   if (baseEmitterOn) return baseCollectorOn ? 'saturation' : 'active';

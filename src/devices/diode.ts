@@ -29,7 +29,8 @@ export class Diode implements TwoTerminal {
   private readonly saturationAmperes: number;
   private readonly emissionVolts: number;
   private readonly criticalVoltage: number;
-  private readonly wattsPerAmpere: number;
+  /** Optical watts per ampere of junction current (LED), 0 for a plain diode: η·hc/(λq). */
+  readonly wattsPerAmpere: number;
   private junctionVolts = 0;
   private change = 0;
   private readonly point = new JunctionPoint();

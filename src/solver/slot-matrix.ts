@@ -9,6 +9,8 @@ export abstract class SlotMatrix {
   protected readonly slotByKey = new Map<number, number>();
   protected readonly rowOf: number[] = [0];
   protected readonly colOf: number[] = [0];
+  /** After a failed factor: the values were spoilt by a stale pivot order; stamp afresh and factor again. */
+  needsRestamp = false;
   /** After a failed factor: the unknown (column) where elimination found no usable pivot, else -1. */
   singularUnknown = -1;
   /** Slots that devices stamp, trash slot included. */

@@ -26,8 +26,6 @@ export class SparseLu extends SlotMatrix {
   upperCol = new Int32Array(0);
   updateTarget = new Int32Array(0);
   private ordered = false;
-  /** The stamped values, kept so a stale pivot order can be replaced without a restamp. */
-  private backup = new Float64Array(1);
   /** How many times the pivot order has been (re)chosen. */
   orderings = 0;
   /** The program as straight-line code (null: run the index-list loops). */
@@ -42,26 +40,21 @@ export class SparseLu extends SlotMatrix {
     super(size);
   }
 
-  override finalise(): void {
-    super.finalise();
-    this.backup = new Float64Array(this.stampedCount);
-  }
-
   /** Relative pivot threshold (fraction of the largest entry below it in its column). */
   static readonly PIVOT_THRESHOLD = 1e-3;
 
   /**
-   * Factors `values` in place; returns false if the matrix is singular.
-   * If a pivot of the current order has become too small, a new order is
-   * chosen from the same stamped values and the factorisation repeated.
+   * Factors `values` in place; returns false if the matrix is singular, or if
+   * a pivot of the current order has become too small: then `needsRestamp`
+   * is set, and the next factor of a fresh stamp chooses a new order.
    */
   factor(): boolean {
-    const stamped = this.values.subarray(0, this.stampedCount);
+    this.needsRestamp = false;
     if (this.ordered) {
-      this.backup.set(stamped);
       if (this.eliminate()) return true;
-      this.values.fill(0, this.stampedCount);
-      stamped.set(this.backup);
+      this.ordered = false;
+      this.needsRestamp = true;
+      return false;
     }
     if (!this.order()) return false;
     return this.eliminate();

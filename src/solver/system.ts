@@ -132,6 +132,19 @@ export class CircuitSystem {
    * Returns false if the matrix is singular.
    */
   iterate(x: Float64Array, xNew: Float64Array): boolean {
+    this.stamp(x);
+    if (!this.matrix.factor()) {
+      if (!this.matrix.needsRestamp) return false;
+      // The pivot order went stale on these values: stamp again and let the matrix re-order.
+      this.stamp(x);
+      if (!this.matrix.factor()) return false;
+    }
+    this.matrix.solve(this.rhs, xNew);
+    xNew[this.size] = 0;
+    return true;
+  }
+
+  private stamp(x: Float64Array): void {
     const values = this.matrix.values;
     values.set(this.constantValues);
     values.fill(0, this.constantValues.length);
@@ -139,10 +152,6 @@ export class CircuitSystem {
     const context = this.iteration;
     context.limited = false;
     for (const d of this.nonlinearDevices) d.load(values, this.rhs, x, context);
-    if (!this.matrix.factor()) return false;
-    this.matrix.solve(this.rhs, xNew);
-    xNew[this.size] = 0;
-    return true;
   }
 
   /** Moves every device's history on after a converged step. */

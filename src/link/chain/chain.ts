@@ -1,4 +1,4 @@
-import { Bjt } from '../../devices/bjt.ts';
+import { Bjt, REGION_CUTOFF, REGION_SATURATION } from '../../devices/bjt.ts';
 import { Diode } from '../../devices/diode.ts';
 import { VoltageSource } from '../../devices/sources.ts';
 import { InputError } from '../../errors.ts';
@@ -216,7 +216,7 @@ export function renderScenario(scenario: Scenario, options: RenderOptions = {}):
       previousMicVolts = internal[i];
       const x = tx.x;
       const amperes = led.junctionCurrent(x);
-      emitterWatts[i] = led.opticalWatts(x);
+      emitterWatts[i] = amperes > 0 ? amperes * led.wattsPerAmpere : 0;
       const index = step - 1;
       ledCutoff.update(index, amperes < scenario.transmitter.cutoffAmperes);
       if (index >= upLatencyInternal && index < upLatencyInternal + total * factor) {
@@ -226,8 +226,9 @@ export function renderScenario(scenario: Scenario, options: RenderOptions = {}):
         ledCount++;
       }
       for (const w of txWatches) {
-        w.saturation.update(index, w.device.isSaturated(x));
-        w.cutoff.update(index, w.device.isCutOff(x));
+        const region = w.device.regionCode(x);
+        w.saturation.update(index, region === REGION_SATURATION);
+        w.cutoff.update(index, region === REGION_CUTOFF);
       }
       for (const tap of txTaps) tap.push((tap.source as { probe: (x: Float64Array) => number }).probe(x));
     }
@@ -251,8 +252,9 @@ export function renderScenario(scenario: Scenario, options: RenderOptions = {}):
       const x = rx.x;
       speaker[i] = (outPlus < 0 ? 0 : x[outPlus]) - (outMinus < 0 ? 0 : x[outMinus]);
       for (const w of rxWatches) {
-        w.saturation.update(index, w.device.isSaturated(x));
-        w.cutoff.update(index, w.device.isCutOff(x));
+        const region = w.device.regionCode(x);
+        w.saturation.update(index, region === REGION_SATURATION);
+        w.cutoff.update(index, region === REGION_CUTOFF);
       }
       for (const tap of rxTaps) tap.push((tap.source as { probe: (x: Float64Array) => number }).probe(x));
     }
