@@ -1,7 +1,7 @@
 import { LitElement, css, html, nothing } from 'lit';
 import { customElement, property } from 'lit/decorators.js';
 import type { BiasReport } from '../src/solver/bias-report.ts';
-import { formatEngineering } from '../src/units/engineering.ts';
+import { formatFigure } from './support/value-text.ts';
 
 /**
  * The DC operating point of one circuit as the chain starts it: node
@@ -13,7 +13,10 @@ export class GtBiasTable extends LitElement {
   static override styles = css`
     :host { display: block; font-size: 0.8rem; }
     h3 { font-size: 0.85rem; margin: 0.6rem 0 0.3rem; font-weight: 600; }
-    .cols { display: grid; grid-template-columns: minmax(8rem, 1fr) minmax(14rem, 2fr); gap: 0.8rem; }
+    .cols { display: grid; gap: 0.5rem; }
+    .nodes { display: flex; flex-wrap: wrap; gap: 0.2rem 0.4rem; }
+    .node { background: var(--gt-input, #10141a); border: 1px solid var(--gt-line, #2c333d); border-radius: 3px; padding: 0.05rem 0.35rem; font-variant-numeric: tabular-nums; white-space: nowrap; }
+    .node span { color: var(--gt-muted, #9aa3ad); margin-right: 0.3rem; }
     table { border-collapse: collapse; width: 100%; font-variant-numeric: tabular-nums; }
     th, td { text-align: left; padding: 0.1rem 0.35rem; border-bottom: 1px solid var(--gt-line, #2c333d); }
     th { color: var(--gt-muted, #9aa3ad); font-weight: 500; }
@@ -22,7 +25,6 @@ export class GtBiasTable extends LitElement {
     .region-saturation, .region-cutoff, .region-reverse { color: var(--gt-warn, #ffb547); font-weight: 600; }
     .region-active { color: var(--gt-good, #7bd88f); }
     .note { color: var(--gt-muted, #9aa3ad); font-size: 0.75rem; }
-    @media (max-width: 900px) { .cols { grid-template-columns: 1fr; } }
   `;
 
   @property() heading = 'Bias point';
@@ -34,16 +36,13 @@ export class GtBiasTable extends LitElement {
   override render() {
     const bias = this.bias;
     if (!bias) return html`<h3>${this.heading}</h3><p class="note">Computed when the scenario renders.</p>`;
-    const fmt = (v: number, unit: string) => formatEngineering(v, unit, 4);
+    const fmt = (v: number, unit: string) => formatFigure(v, unit, 4);
     return html`
       <h3>${this.heading} ${this.stale ? html`<span class="note">(previous settings)</span>` : nothing}</h3>
       <div class="cols" data-bias=${this.heading}>
-        <table>
-          <thead><tr><th>Node</th><th class="num">Voltage</th></tr></thead>
-          <tbody>
-            ${Object.entries(bias.nodes).map(([name, volts]) => html`<tr><td>${name}</td><td class="num">${fmt(volts, 'V')}</td></tr>`)}
-          </tbody>
-        </table>
+        <div class="nodes" aria-label="node voltages">
+          ${Object.entries(bias.nodes).map(([name, volts]) => html`<span class="node" data-node=${name}><span>${name}</span> ${fmt(volts, 'V')}</span>`)}
+        </div>
         <table>
           <thead><tr><th>Part</th><th class="num">Voltage</th><th class="num">Current</th></tr></thead>
           <tbody>

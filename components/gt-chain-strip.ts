@@ -1,7 +1,7 @@
 import { LitElement, css, html, nothing, svg } from 'lit';
 import { customElement, property } from 'lit/decorators.js';
 import type { RenderReport } from '../src/link/chain/report.ts';
-import { formatEngineering } from '../src/units/engineering.ts';
+import { formatFigure } from './support/value-text.ts';
 import type { BiasTables } from '../src/worker/messages.ts';
 import type { BlockId } from './support/field-catalogue.ts';
 import { readAt, type JsonObject } from './support/scenario-doc.ts';
@@ -128,7 +128,7 @@ export class GtChainStrip extends LitElement {
     const detectorRegion = (() => {
       const ref = json ? String(readAt(json, 'receiver.detector') ?? '') : '';
       const p = bias?.receiver.parts[ref];
-      return p && 'currents' in p ? `${ref} I_C ${formatEngineering(p.currents.collector, 'A')} at rest` : 'bias not yet solved';
+      return p && 'currents' in p ? `${ref} I_C ${formatFigure(p.currents.collector, 'A')} at rest` : 'bias not yet solved';
     })();
     const sens = json ? readAt(json, 'microphone.sensitivity') : undefined;
     return [
@@ -142,22 +142,22 @@ export class GtChainStrip extends LitElement {
       {
         id: 'microphone',
         name: 'Microphone',
-        key: this.micRmsVolts !== null ? `${formatEngineering(this.micRmsVolts, 'V')} rms` : typeof sens === 'number' ? `${sens} dBV/Pa` : '—',
+        key: this.micRmsVolts !== null ? `${formatFigure(this.micRmsVolts, 'V')} rms` : typeof sens === 'number' ? `${sens} dBV/Pa` : '—',
         sub: typeof sens === 'number' ? `${sens} dBV/Pa` : '',
         badges: [],
       },
       {
         id: 'transmitter',
         name: 'Transmitter · LED',
-        key: ledRest !== null ? `${formatEngineering(ledRest, 'A')} bias` : '—',
-        sub: r ? `swing ${formatEngineering(r.led.minimumAmperes, 'A')} … ${formatEngineering(r.led.maximumAmperes, 'A')}` : 'swing after the render',
+        key: ledRest !== null ? `${formatFigure(ledRest, 'A')} bias` : '—',
+        sub: r ? `swing ${formatFigure(r.led.minimumAmperes, 'A')} … ${formatFigure(r.led.maximumAmperes, 'A')}` : 'swing after the render',
         badges: [...ledBadges, ...this.transistorBadges('transmitter')],
         lightAfter: true,
       },
       {
         id: 'light',
         name: 'Light path',
-        key: detectorWatts !== null ? formatEngineering(detectorWatts, 'W') : '—',
+        key: detectorWatts !== null ? formatFigure(detectorWatts, 'W') : '—',
         sub: `at the detector${gain !== null && gain > 0 ? ` · path ${(10 * Math.log10(gain)).toFixed(1)} dB` : ''}${ambient ? ' · ambient light' : ' · dark'}`,
         badges: [],
         lightAfter: true,
@@ -172,14 +172,14 @@ export class GtChainStrip extends LitElement {
       {
         id: 'speaker',
         name: 'Speaker',
-        key: r ? `${formatEngineering(r.farEnd.rmsVolts, 'V')} rms` : '—',
-        sub: r ? `peak ${formatEngineering(r.farEnd.peakVolts, 'V')} · WAV full scale ${formatEngineering(r.farEnd.wavFullScaleVolts, 'V')}` : '',
+        key: r ? `${formatFigure(r.farEnd.rmsVolts, 'V')} rms` : '—',
+        sub: r ? `peak ${formatFigure(r.farEnd.peakVolts, 'V')} · WAV full scale ${formatFigure(r.farEnd.wavFullScaleVolts, 'V')}` : '',
         badges: r && r.farEnd.peakVolts > r.farEnd.wavFullScaleVolts ? [{ text: 'far-end WAV would clip', tone: 'warn' }] : [],
       },
       {
         id: 'solver',
         name: 'Solver',
-        key: r ? `${formatEngineering(r.internalRateHertz, 'Hz')}` : '—',
+        key: r ? `${formatFigure(r.internalRateHertz, 'Hz')}` : '—',
         sub: r ? `${(r.durationSeconds / Math.max(1e-9, r.solver.wallSeconds)).toFixed(2)}× real time` : '',
         badges: r && r.solver.subdividedSteps > 0 ? [{ text: `${r.solver.subdividedSteps} steps subdivided`, tone: 'warn' }] : [],
       },

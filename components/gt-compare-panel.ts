@@ -1,6 +1,6 @@
 import { LitElement, css, html, nothing } from 'lit';
 import { customElement, property, state } from 'lit/decorators.js';
-import { formatEngineering } from '../src/units/engineering.ts';
+import { formatFigure } from './support/value-text.ts';
 import type { LinkMetric } from '../src/worker/messages.ts';
 import { settingDifferences, type JsonObject } from './support/scenario-doc.ts';
 import type { Snapshot, SnapshotMeta } from './support/workbench-store.ts';
@@ -14,7 +14,7 @@ export interface CurrentRender {
 function showMetric(m: LinkMetric | undefined): string {
   if (!m) return '—';
   if (m.value === null) return m.note ? `n/a (${m.note})` : 'n/a';
-  if (m.unit === 'V' || m.unit === 'W' || m.unit === 'A') return formatEngineering(m.value, m.unit, 4);
+  if (m.unit === 'V' || m.unit === 'W' || m.unit === 'A') return formatFigure(m.value, m.unit, 4);
   return `${Number(m.value.toPrecision(4))}${m.unit ? ` ${m.unit}` : ''}`;
 }
 

@@ -101,6 +101,9 @@ export class GtListenBar extends LitElement {
         <button class="primary" data-play data-playing=${this.playing ? 'true' : 'false'} ?disabled=${!selected} @click=${this.togglePlay}>
           ${this.playing ? '■ Stop' : '▶ Play'}
         </button>
+        <button data-rewind title="back to the start" aria-label="back to the start" @click=${this.rewind}>
+          <svg viewBox="0 0 16 16" width="12" height="12" aria-hidden="true"><path d="M3 2v12M14 2L5 8l9 6z" fill="currentColor" stroke="currentColor" stroke-width="1.5"/></svg>
+        </button>
         <label>Signal
           <select data-signal @change=${(e: Event) => this.choose((e.target as HTMLSelectElement).value)}>
             ${this.signals.map((s) => html`<option .value=${s.id} ?selected=${s.id === this.selectedId}>${s.label}</option>`)}
@@ -201,6 +204,13 @@ export class GtListenBar extends LitElement {
     this.dispatchEvent(new CustomEvent('playhead', { detail: null, bubbles: true, composed: true }));
   }
 
+  private rewind(): void {
+    const wasPlaying = this.playing;
+    if (wasPlaying) this.stop();
+    this.position = this.looping && this.loopRange ? this.loopRange.startSeconds : 0;
+    if (wasPlaying) this.play();
+  }
+
   private tick = (): void => {
     if (!this.player) return;
     this.position = this.player.currentPositionSeconds();
@@ -215,10 +225,16 @@ export class GtListenBar extends LitElement {
 
   private choose(id: string): void {
     this.selectedId = id;
-    if (this.playing && this.player) {
+    this.problem = '';
+    if (!this.playing || !this.player) return;
+    try {
       const buffer = this.bufferFor(id);
       if (buffer) this.player.switchTo(buffer);
       else this.stop();
+    } catch (error) {
+      // E.g. the loop reaches past the end of a shorter snapshot.
+      this.stop();
+      this.problem = `Cannot switch: ${(error as Error).message}`;
     }
   }
 

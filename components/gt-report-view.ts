@@ -1,6 +1,6 @@
 import { LitElement, css, html, nothing } from 'lit';
 import { customElement, property } from 'lit/decorators.js';
-import { formatEngineering } from '../src/units/engineering.ts';
+import { formatFigure } from './support/value-text.ts';
 import type { RenderedLink } from '../src/worker/messages.ts';
 
 /** The render in plain words (the same summary the command line prints) and every figure measured. */
@@ -33,7 +33,7 @@ export class GtReportView extends LitElement {
           ${run.metrics.map(
             (m) => html`<tr>
               <td>${m.label}</td>
-              <td>${m.value === null ? html`<span class="note">n/a${m.note ? ` — ${m.note}` : ''}</span>` : m.unit === 'V' || m.unit === 'W' || m.unit === 'A' ? formatEngineering(m.value, m.unit, 4) : `${Number(m.value.toPrecision(4))} ${m.unit}`}</td>
+              <td>${m.value === null ? html`<span class="note">n/a${m.note ? ` — ${m.note}` : ''}</span>` : m.unit === 'V' || m.unit === 'W' || m.unit === 'A' ? formatFigure(m.value, m.unit, 4) : `${Number(m.value.toPrecision(4))} ${m.unit}`}</td>
             </tr>`,
           )}
         </tbody>

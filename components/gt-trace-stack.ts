@@ -3,13 +3,15 @@ import { customElement, property, state } from 'lit/decorators.js';
 import uPlot from 'uplot';
 import uPlotCss from 'uplot/dist/uPlot.min.css?inline';
 import type { TimeInterval } from '../src/link/chain/intervals.ts';
-import { formatEngineering } from '../src/units/engineering.ts';
+import { formatFigure } from './support/value-text.ts';
 import { MinMaxTrace } from './support/min-max.ts';
 import { timeAxis, valueAxis } from './support/plot-theme.ts';
 
 export interface TraceSpec {
   id: string;
   label: string;
+  /** Name in the cursor readout. */
+  short: string;
   unit: string;
   samples: ArrayLike<number>;
   rateHertz: number;
@@ -19,9 +21,14 @@ export interface TraceSpec {
 /** Time intervals to shade on every trace (LED cut-off, transistor saturation). */
 export interface ShadeSpec {
   label: string;
+  /** Band over the plot (light) and marker strip along its top (solid). */
   colour: string;
+  marker: string;
   intervals: TimeInterval[];
 }
+
+/** Height of each marker strip along the top of a plot, CSS pixels. */
+const MARKER_PX = 4;
 
 export interface TimeRange {
   startSeconds: number;
@@ -63,7 +70,8 @@ export class GtTraceStack extends LitElement {
   @property({ attribute: false }) shading: ShadeSpec[] = [];
   @property({ attribute: false }) playheadSeconds: number | null = null;
 
-  @state() private view: TimeRange = { startSeconds: 0, endSeconds: 1 };
+  // Not reactive: the plots are redrawn by setView, the template does not show it.
+  private view: TimeRange = { startSeconds: 0, endSeconds: 1 };
   @state() private selection: TimeRange | null = null;
   @state() private readout = '';
 
@@ -105,7 +113,7 @@ export class GtTraceStack extends LitElement {
         <button @click=${this.clearSelection} ?disabled=${!sel}>Clear selection</button>
         <span>${sel ? `selected ${sel.startSeconds.toFixed(4)}–${sel.endSeconds.toFixed(4)} s` : 'drag to select · wheel zooms · Shift+wheel pans · double-click shows all'}</span>
         <span class="legend">
-          ${this.shading.map((s) => html`<span><span class="swatch" style="background:${s.colour}"></span>${s.label} (${s.intervals.length})</span>`)}
+          ${this.shading.map((s) => html`<span><span class="swatch" style="background:${s.marker}"></span>${s.label} (${s.intervals.length}${s.intervals.length >= 2000 ? '+' : ''})</span>`)}
         </span>
       </div>
       <div class="readout" data-readout>${this.readout || '\u00a0'}</div>
@@ -267,7 +275,7 @@ export class GtTraceStack extends LitElement {
     this.readoutFrame = requestAnimationFrame(() => {
       const parts = this.traces.map((t, i) => {
         const v = this.decimators[i]?.valueAt(seconds);
-        return `${t.label} ${v === null || v === undefined ? '—' : formatEngineering(v, t.unit, 4)}`;
+        return `${t.short} ${v === null || v === undefined ? '—' : formatFigure(v, t.unit, 4)}`;
       });
       this.readout = `t = ${seconds.toFixed(5)} s   ·   ${parts.join('   ·   ')}`;
     });
@@ -277,18 +285,22 @@ export class GtTraceStack extends LitElement {
     const ctx = u.ctx;
     const { left, top, width, height } = u.bbox;
     const { startSeconds, endSeconds } = this.view;
+    const strip = MARKER_PX * devicePixelRatio;
     ctx.save();
-    for (const s of this.shading) {
-      ctx.fillStyle = s.colour;
+    this.shading.forEach((s, k) => {
       for (const interval of s.intervals) {
         const end = interval.startSeconds + interval.durationSeconds;
         if (end < startSeconds || interval.startSeconds > endSeconds) continue;
         const x0 = Math.max(left, u.valToPos(interval.startSeconds, 'x', true));
         const x1 = Math.min(left + width, u.valToPos(end, 'x', true));
         // At least a pixel wide, so a short episode is still seen when zoomed out.
-        ctx.fillRect(x0, top, Math.max(1, x1 - x0), height);
+        const w = Math.max(1, x1 - x0);
+        ctx.fillStyle = s.colour;
+        ctx.fillRect(x0, top, w, height);
+        ctx.fillStyle = s.marker;
+        ctx.fillRect(x0, top + k * strip, w, strip);
       }
-    }
+    });
     ctx.restore();
   }
 

@@ -2,7 +2,7 @@ import { LitElement, css, html, unsafeCSS, type PropertyValues } from 'lit';
 import { customElement, property } from 'lit/decorators.js';
 import uPlot from 'uplot';
 import uPlotCss from 'uplot/dist/uPlot.min.css?inline';
-import { formatEngineering } from '../src/units/engineering.ts';
+import { formatFigure } from './support/value-text.ts';
 import { PLOT, valueAxis } from './support/plot-theme.ts';
 
 /** Points drawn at most; more only blurs the cloud and costs time. */
@@ -42,7 +42,7 @@ export class GtTransferView extends LitElement {
 
   override render() {
     return html`<p>LED current against microphone voltage, one dot per audio sample (${this.points.x.length} shown). Dashed: cut-off threshold
-        ${formatEngineering(this.cutoffAmperes, 'A')}; ring: resting point ${formatEngineering(this.restingAmperes, 'A', 4)}.</p>
+        ${formatFigure(this.cutoffAmperes, 'A')}; ring: resting point ${formatFigure(this.restingAmperes, 'A', 4)}.</p>
       <div class="plot" data-transfer></div>`;
   }
 

@@ -6,7 +6,7 @@
 import { InputError, isUserFacing } from '../../src/errors.ts';
 import type { Scenario } from '../../src/scenario/index.ts';
 import { FIELDS } from './field-catalogue.ts';
-import { loadDoc, writeCircuitValue, writeField, type Json, type ScenarioDoc } from './scenario-doc.ts';
+import { loadDoc, readAt, writeCircuitValue, writeField, type Json, type ScenarioDoc } from './scenario-doc.ts';
 
 const SPECS = Object.values(FIELDS).flat();
 
@@ -25,8 +25,16 @@ export function applyEdit(doc: ScenarioDoc, path: string, value: Json): EditOutc
     return { ok: true, doc: next, scenario: loadDoc(next) };
   } catch (error) {
     if (!isUserFacing(error)) throw error;
-    return { ok: false, reason: withoutLabel(error.message, doc.label) };
+    return { ok: false, reason: partsByRef(withoutLabel(error.message, doc.label), doc) };
   }
+}
+
+/** The loader names parts by position ("parts[5]"); the page shows them by ref ("parts[RB]"), as the parts table does. */
+function partsByRef(message: string, doc: ScenarioDoc): string {
+  return message.replace(/\b(transmitter|receiver)\.circuit\.parts\[(\d+)\]/g, (whole, block: string, index: string) => {
+    const ref = readAt(doc.json, `${block}.circuit.parts.${index}.ref`);
+    return typeof ref === 'string' ? `${block}.circuit.parts[${ref}]` : whole;
+  });
 }
 
 /** "demo-bay/scenario.json: microphone.sensitivity: got…" → "microphone.sensitivity: got…". */

@@ -1,6 +1,6 @@
 /** Colours and axis settings shared by the plots (our own palette). */
 import type uPlot from 'uplot';
-import { formatEngineering } from '../../src/units/engineering.ts';
+import { formatFigure } from './value-text.ts';
 
 export const PLOT = {
   text: '#aeb6bf',
@@ -29,7 +29,7 @@ export function valueAxis(unit: string, show = true): uPlot.Axis {
     size: 74,
     grid: { stroke: PLOT.grid, width: 1 },
     ticks: { stroke: PLOT.tick, width: 1, size: 4 },
-    values: (_u, splits) => splits.map((v) => (v === null ? '' : formatEngineering(v, unit, 3))),
+    values: (_u, splits) => splits.map((v) => (v === null ? '' : formatFigure(v, unit, 3))),
   };
 }
 

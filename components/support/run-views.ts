@@ -15,6 +15,7 @@ const LABELS: Record<string, string> = {
   'transmitter.led': 'LED current',
   'light.detectorWatts': 'light at detector',
 };
+const SHORT: Record<string, string> = { 'microphone.volts': 'mic', 'transmitter.led': 'LED', 'light.detectorWatts': 'light' };
 
 const traceCache = new WeakMap<RenderedLink, TraceSpec[]>();
 const shadeCache = new WeakMap<RenderedLink, ShadeSpec[]>();
@@ -29,20 +30,21 @@ export function tracesOf(run: RenderedLink): TraceSpec[] {
   const byName = (name: string) => run.taps.find((t) => t.name === name);
   const own = run.taps.filter((t) => !fixed.includes(t.name));
   traces = [
-    { id: 'source', label: 'source (sound at the microphone)', unit: 'Pa', samples: run.sourcePascals, rateHertz: run.sampleRateHertz, colour: TRACE_COLOURS.source },
+    { id: 'source', label: 'source (sound at the microphone)', short: 'source', unit: 'Pa', samples: run.sourcePascals, rateHertz: run.sampleRateHertz, colour: TRACE_COLOURS.source },
   ];
   for (const tap of [byName('microphone.volts'), byName('transmitter.led'), ...own, byName('light.detectorWatts')]) {
     if (!tap) continue;
     traces.push({
       id: tap.name,
       label: LABELS[tap.name] ?? tap.name,
+      short: SHORT[tap.name] ?? tap.name.replace(/^(transmitter|receiver)\./, (m) => (m === 'transmitter.' ? 'tx.' : 'rx.')),
       unit: tap.unit,
       samples: tap.samples,
       rateHertz: tap.sampleRateHertz,
       colour: TRACE_COLOURS[tap.name] ?? FALLBACK_COLOURS[traces.length % FALLBACK_COLOURS.length],
     });
   }
-  traces.push({ id: 'far-end', label: 'far end (across the speaker)', unit: 'V', samples: run.farEndVolts, rateHertz: run.sampleRateHertz, colour: TRACE_COLOURS['far end'] });
+  traces.push({ id: 'far-end', label: 'far end (across the speaker)', short: 'far end', unit: 'V', samples: run.farEndVolts, rateHertz: run.sampleRateHertz, colour: TRACE_COLOURS['far end'] });
   traceCache.set(run, traces);
   return traces;
 }
@@ -52,8 +54,8 @@ export function shadingOf(run: RenderedLink): ShadeSpec[] {
   if (shading) return shading;
   const saturation = run.report.transistors.flatMap((t) => t.saturation.intervals);
   shading = [
-    { label: 'LED cut off', colour: 'rgba(255, 107, 107, 0.22)', intervals: run.report.led.cutoff.intervals },
-    { label: 'a transistor saturated', colour: 'rgba(255, 181, 71, 0.2)', intervals: saturation },
+    { label: 'LED cut off', colour: 'rgba(255, 107, 107, 0.13)', marker: '#ff6b6b', intervals: run.report.led.cutoff.intervals },
+    { label: 'a transistor saturated', colour: 'rgba(255, 181, 71, 0.09)', marker: '#e0a030', intervals: saturation },
   ];
   shadeCache.set(run, shading);
   return shading;

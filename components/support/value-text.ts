@@ -36,3 +36,12 @@ export function shownValue(value: Json | undefined, engineering: boolean, unit =
   return formatEngineering(v, '', 6).replace(' ', '');
 }
 
+
+/**
+ * A measured figure for display: engineering notation, with anything below
+ * the smallest prefix (a femtoampere of leakage, −2e-19 A of a cut-off LED)
+ * shown as 0 rather than "-0.0002 fA".
+ */
+export function formatFigure(value: number, unit: string, significantDigits = 3): string {
+  return formatEngineering(Math.abs(value) < 1e-15 ? 0 : value, unit, significantDigits);
+}

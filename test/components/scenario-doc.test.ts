@@ -28,6 +28,11 @@ describe('the page’s scenario document', () => {
     const bad = applyEdit(doc, 'microphone.sensitivity', 50);
     expect(bad).toEqual({ ok: false, reason: 'microphone.sensitivity: got 50; expected a sensitivity from -100 to 20 dBV/Pa' });
     expect(readAt(doc.json, 'transmitter.circuit.parts[RB].value')).toBe('100k');
+    // The loader counts parts by position; the page names them by ref.
+    expect(applyEdit(doc, 'transmitter.circuit.parts[RB].value', -47000)).toEqual({
+      ok: false,
+      reason: 'transmitter.circuit.parts[RB].value: got -47000; expected a value in ohms > 0',
+    });
   });
 
   it('writes a default that was left out, and switching the source kind brings that kind’s fields', () => {
