@@ -49,7 +49,7 @@ export class GtBlockSettings extends LitElement {
             .unit=${f.unit}
             .kind=${f.kind}
             .engineering=${f.engineering ?? false}
-            .choices=${this.extraChoices[f.path] ?? f.choices ?? []}
+            .choices=${this.extraChoices[f.path] ?? f.choicesFrom?.(json) ?? f.choices ?? []}
             .value=${fieldValue(json, f)}
             .nullable=${f.nullable ?? null}
             .hint=${f.hint ?? ''}

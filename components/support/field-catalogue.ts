@@ -20,6 +20,8 @@ export interface FieldSpec {
   /** Accepts SI prefixes (4.7k, 100n); plain-number fields (dB, degrees) do not. */
   engineering?: boolean;
   choices?: readonly (string | number | boolean)[];
+  /** Choices read from the document (e.g. the refs of the LEDs in the transmitter circuit). */
+  choicesFrom?: (json: JsonObject) => string[];
   /** Value used when the field is left out. */
   fallback?: Json;
   /** The field may be null (switched off); `onValue` is written when switched on. */
@@ -64,6 +66,15 @@ function setLevelBy(json: JsonObject, by: Json): JsonObject {
   return writeField(json, 'source.level', by === 'effort' ? { effort: 'normal', distance: 0.3 } : { dbSpl: 72 });
 }
 
+/** Refs of the parts of some kinds in a circuit of the document. */
+function refsOf(block: 'transmitter' | 'receiver', kinds: string[]): (json: JsonObject) => string[] {
+  return (json) => {
+    const parts = readAt(json, `${block}.circuit.parts`);
+    if (!Array.isArray(parts)) return [];
+    return parts.flatMap((p) => (p && typeof p === 'object' && !Array.isArray(p) && kinds.includes(String(p.kind)) && typeof p.ref === 'string' ? [p.ref] : []));
+  };
+}
+
 const MODEL_KINDS_SHOWN = { 'free-space': 'line of sight', 'light-guide': 'light guide' };
 
 export const FIELDS: Record<BlockId, FieldSpec[]> = {
@@ -95,6 +106,8 @@ export const FIELDS: Record<BlockId, FieldSpec[]> = {
     { path: 'microphone.seed', label: 'Noise seed', unit: '', kind: 'number', fallback: SCENARIO_DEFAULTS.microphoneSeed },
   ],
   transmitter: [
+    { path: 'transmitter.input', label: 'Microphone drives', unit: '', kind: 'choice', choicesFrom: refsOf('transmitter', ['voltage-source']), hint: 'a voltage source whose wave is "upstream"' },
+    { path: 'transmitter.led', label: 'Signal LED', unit: '', kind: 'choice', choicesFrom: refsOf('transmitter', ['led']) },
     { path: 'transmitter.cutoffCurrent', label: 'LED counts as cut off below', unit: 'A', kind: 'number', engineering: true, fallback: SCENARIO_DEFAULTS.cutoffAmperes },
   ],
   light: [
@@ -158,6 +171,7 @@ export const FIELDS: Record<BlockId, FieldSpec[]> = {
     { path: 'lightPath.seed', label: 'Noise seed', unit: '', kind: 'number', fallback: SCENARIO_DEFAULTS.lightPathSeed },
   ],
   receiver: [
+    { path: 'receiver.detector', label: 'Detector', unit: '', kind: 'choice', choicesFrom: refsOf('receiver', ['phototransistor']) },
     { path: 'receiver.speaker', label: 'Speaker load placed by the chain', unit: 'Ω', kind: 'number', engineering: true, nullable: { offLabel: 'circuit has its own', onValue: 8 } },
   ],
   speaker: [

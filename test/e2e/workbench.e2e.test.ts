@@ -207,12 +207,17 @@ describe('the workbench page in Chromium', () => {
     expect(peak).toBeGreaterThan(1e-3);
   });
 
-  it('refuses a corrupt WAV with a clear message and keeps the previous source and render', async () => {
+  it('refuses a corrupt WAV dropped on the page with a clear message and keeps the previous source and render', async () => {
     const corrupt = join(files, 'broken.wav');
     writeFileSync(corrupt, Buffer.concat([Buffer.from('RIFF'), Buffer.alloc(4), Buffer.from('WAVEfmt '), Buffer.from([16, 0, 0, 0, 1, 0])]));
     const lastRun = await page.locator('[data-last-run]').innerText();
     const renders = await count('renders');
-    await page.locator('gt-file-bar input[data-import-wav]').setInputFiles(corrupt);
+    // Dropped on the page this time (the picker was used above).
+    await workbench().evaluate((host, data) => {
+      const transfer = new DataTransfer();
+      transfer.items.add(new File([new Uint8Array(data)], 'broken.wav', { type: 'audio/wav' }));
+      host.dispatchEvent(new DragEvent('drop', { dataTransfer: transfer, bubbles: true, cancelable: true }));
+    }, [...readFileSync(corrupt)]);
     const message = await page.locator('[data-notice="error"]').innerText();
     expect(message).toMatch(/broken\.wav/);
     expect(message).toMatch(/byte \d+/);
