@@ -8,7 +8,7 @@
  * divided out, so the linear response reads in dB re 1 V/Pa.
  *
  * Results are read off on a grid of `pointsPerOctave` log-spaced frequencies
- * (linear interpolation in dB between FFT bins). Harmonic n is given against
+ * through 1 kHz (linear interpolation in dB between FFT bins). Harmonic n is given against
  * the excitation frequency f, for n·f inside the swept band, in dB re the
  * linear response at f (dBc).
  */
@@ -107,11 +107,12 @@ export function chainResponse(scenario: Scenario, result: RenderResult, options:
   const referenceHertz = Math.min(source.endHertz, Math.max(source.startHertz, 1000));
   const linearDb = (hertz: number) => interpolateDb(measured.linear, hertz) - scaleDb;
   const referenceDb = linearDb(referenceHertz);
-  const octaves = Math.log2(source.endHertz / source.startHertz);
-  const count = Math.floor(octaves * options.pointsPerOctave + 1e-9) + 1;
+  // Grid anchored at 1 kHz, so 1 kHz (and its octaves) are always rows.
+  const first = Math.ceil(options.pointsPerOctave * Math.log2(source.startHertz / 1000) - 1e-9);
+  const last = Math.floor(options.pointsPerOctave * Math.log2(source.endHertz / 1000) + 1e-9);
   const points: ResponsePoint[] = [];
-  for (let i = 0; i < count; i++) {
-    const hertz = source.startHertz * 2 ** (i / options.pointsPerOctave);
+  for (let k = first; k <= last; k++) {
+    const hertz = 1000 * 2 ** (k / options.pointsPerOctave);
     const magnitudeDb = linearDb(hertz);
     const harmonicsDbc = measured.harmonics.map((h) => (hertz * h.order <= source.endHertz && hertz >= source.startHertz ? interpolateDb(h, hertz, 'dbc') : null));
     points.push({ hertz, magnitudeDb, relativeDb: magnitudeDb - referenceDb, harmonicsDbc });

@@ -4,6 +4,7 @@ import type { ToleranceSpec } from '../analysis/tolerance.ts';
 import { runTolerance, type ToleranceResult } from '../analysis/tolerance-run.ts';
 import { InputError } from '../errors.ts';
 import { settingsSummary } from '../scenario/index.ts';
+import { readEngineering } from '../units/engineering.ts';
 import { createRunner, defaultOutDir, excerptFlag, numberFlag, progressBar, readScenario, shellWord, withLevelFlag, writeResults } from './analysis-common.ts';
 import { formatNumber, toText, type Table } from './tables.ts';
 
@@ -33,9 +34,9 @@ function rangeFlag(text: string | undefined, flag: string): [number, number] | n
   const parts = text.split(':');
   const expected = 'a current-gain range MIN:MAX, e.g. 100:300';
   if (parts.length !== 2) throw new InputError(flag, expected, `got "${text}"`);
-  const low = numberFlag(parts[0], flag, 0, (v) => v > 0 && v <= 1e5, expected);
-  const high = numberFlag(parts[1], flag, 0, (v) => v >= low && v <= 1e5, expected);
-  return [low, high];
+  const [low, high] = parts.map((part) => readEngineering(part.trim()));
+  if (!low.ok || !high.ok || !(low.value > 0 && high.value >= low.value && high.value <= 1e5)) throw new InputError(flag, expected, `got "${text}"`);
+  return [low.value, high.value];
 }
 
 /** `glowtalk tolerance SCENARIO --runs N --seed S [--corners]`: Monte Carlo over the declared part tolerances. */

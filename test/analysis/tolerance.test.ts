@@ -3,6 +3,8 @@ import type { Circuit, LedModel } from '../../src/circuit/types.ts';
 import { summariseTolerance, planRuns, runTolerance } from '../../src/analysis/tolerance-run.ts';
 import { applyRun, cornerRuns, drawRun, toleranceParameters, type ToleranceSpec } from '../../src/analysis/tolerance.ts';
 import { Simulator } from '../../src/solver/simulator.ts';
+import type { MetricName } from '../../src/analysis/link-metrics.ts';
+import { inProcessRunner } from '../../src/worker/jobs.ts';
 import { NodePool } from '../../src/worker/node-pool.ts';
 import { linkScenario } from './link-fixture.ts';
 
@@ -121,18 +123,18 @@ describe('tolerance parameters and draws', () => {
 });
 
 describe('runTolerance', () => {
-  it('gives identical tables on 1 and 2 workers for a fixed seed, and names the worst runs with their values', async () => {
+  it('gives identical tables in this thread and on 2 workers for a fixed seed, and names the worst runs with their values', async () => {
     const scenario = linkScenario({ kind: 'tone', frequency: 1000, seconds: 0.1, level: { dbSpl: 95 } });
     const plan = { runs: 4, seed: 2024, corners: true };
-    const run = async (workers: number) => {
-      const pool = new NodePool(workers);
-      try {
-        return await runTolerance(scenario, undefined, SPEC, plan, ['minLedMilliamperes', 'thdPercent'], pool);
-      } finally {
-        await pool.close();
-      }
-    };
-    const [one, two] = [await run(1), await run(2)];
+    const metrics: MetricName[] = ['minLedMilliamperes', 'thdPercent'];
+    const one = await runTolerance(scenario, undefined, SPEC, plan, metrics, inProcessRunner());
+    const pool = new NodePool(2);
+    let two: typeof one;
+    try {
+      two = await runTolerance(scenario, undefined, SPEC, plan, metrics, pool);
+    } finally {
+      await pool.close();
+    }
     const table = (r: typeof one) => r.rows.map((row) => [row.run.label, ...row.run.values, row.outcome.ok ? row.outcome.result.metrics.values : row.outcome.error]);
     expect(table(two)).toEqual(table(one));
     expect(two.spreads).toEqual(one.spreads);
