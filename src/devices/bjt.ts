@@ -172,6 +172,14 @@ export class Bjt implements ThreeTerminal {
     return this.change;
   }
 
+  linearisationError(x: Float64Array): number {
+    const p = this.polarity;
+    const vb = voltageAt(x, this.b);
+    const be = (p * (vb - voltageAt(x, this.e)) - this.vbe) / this.emissionVolts;
+    const bc = (p * (vb - voltageAt(x, this.c)) - this.vbc) / this.emissionVolts;
+    return 0.5 * Math.max(be * be, bc * bc);
+  }
+
   breakpoints(stopSeconds: number): number[] {
     return this.light?.breakpoints(stopSeconds) ?? [];
   }

@@ -47,9 +47,16 @@ export interface Device {
   stampStep(rhs: Float64Array, integrator: Integrator, timeSeconds: number, sourceScale: number): void;
   /** True for devices that need `load` every iteration. */
   readonly nonlinear: boolean;
+  /** True for devices with nothing to do per step (no `stampStep`, no history to `accept`). */
+  readonly stepless?: boolean;
   load(matrix: Float64Array, rhs: Float64Array, x: Float64Array, context: IterationContext): void;
   /** A step converged at solution x: move the integrator history on. */
   accept(x: Float64Array, integrator: Integrator): void;
+  /**
+   * Nonlinear devices: how far the linearisation of the last `load` is off at solution x, as the
+   * largest relative junction-current error ½(Δv/nVT)² (Taylor remainder of the exponential).
+   */
+  linearisationError?(x: Float64Array): number;
   /** Size of this device's last junction-voltage update in volts (to blame a part when Newton fails). */
   lastJunctionChange(): number;
   /** Times where the device's drive has a corner, within (0, stopSeconds]. */

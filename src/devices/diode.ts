@@ -102,6 +102,11 @@ export class Diode implements TwoTerminal {
     return this.change;
   }
 
+  linearisationError(x: Float64Array): number {
+    const e = (voltageAt(x, this.junction) - voltageAt(x, this.cathode) - this.junctionVolts) / this.emissionVolts;
+    return 0.5 * e * e;
+  }
+
   breakpoints(): number[] {
     return [];
   }

@@ -3,6 +3,7 @@ import type { Binder, TwoTerminal } from './device.ts';
 /** Ohm's law between pins a and b. */
 export class Resistor implements TwoTerminal {
   readonly nonlinear = false;
+  readonly stepless = true;
   private readonly a: number;
   private readonly b: number;
   private readonly aa: number;

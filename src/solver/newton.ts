@@ -10,10 +10,17 @@ export interface NewtonTolerances {
   amperes: number;
   /** Iterations before giving up. */
   maxIterations: number;
+  /**
+   * Time steps only: accept after an iteration whose linearisation is off by less than this
+   * relative junction-current error at the new solution, ½(Δv/nVT)² (the exponential's Taylor
+   * remainder), even if the update itself was larger than the tolerance: Newton's quadratic
+   * convergence makes the next update negligible then. 0 = never.
+   */
+  quadraticAcceptance: number;
 }
 
-export const DEFAULT_TOLERANCES: NewtonTolerances = { relative: 1e-6, volts: 1e-7, amperes: 1e-12, maxIterations: 60 };
-export const TIGHT_TOLERANCES: NewtonTolerances = { relative: 1e-10, volts: 1e-12, amperes: 1e-16, maxIterations: 200 };
+export const DEFAULT_TOLERANCES: NewtonTolerances = { relative: 1e-6, volts: 1e-7, amperes: 1e-12, maxIterations: 60, quadraticAcceptance: 1e-9 };
+export const TIGHT_TOLERANCES: NewtonTolerances = { relative: 1e-10, volts: 1e-12, amperes: 1e-16, maxIterations: 200, quadraticAcceptance: 0 };
 
 export interface NewtonOutcome {
   converged: boolean;
@@ -42,11 +49,23 @@ export class Newton {
     this.next = new Float64Array(system.size + 1);
   }
 
-  solve(x: Float64Array, initialiseJunctions = false): NewtonOutcome {
+  /** The largest junction linearisation error of all nonlinear devices at x. */
+  private linearisationError(x: Float64Array): number {
+    let worst = 0;
+    for (const d of this.system.nonlinearDevices) {
+      const e = d.linearisationError ? d.linearisationError(x) : Infinity;
+      if (e > worst) worst = e;
+    }
+    return worst;
+  }
+
+  /** `timeStep`: a transient step (quadratic acceptance allowed), not a DC solve. */
+  solve(x: Float64Array, initialiseJunctions = false, timeStep = false): NewtonOutcome {
     const system = this.system;
     const next = this.next;
     const out = this.outcome;
     const { relative, volts, amperes, maxIterations } = this.tolerances;
+    const quadratic = timeStep ? this.tolerances.quadraticAcceptance : 0;
     const nodeCount = system.nodeCount;
     const size = system.size;
     const hasNonlinear = system.nonlinearDevices.length > 0;
@@ -89,7 +108,8 @@ export class Newton {
         out.converged = true;
         return out;
       }
-      if (worstRatio <= 1 && !system.iteration.limited && !wasInitialising) {
+      if (system.iteration.limited || wasInitialising) continue;
+      if (worstRatio <= 1 || (quadratic > 0 && this.linearisationError(x) <= quadratic)) {
         out.converged = true;
         return out;
       }

@@ -27,8 +27,12 @@ export class Simulator {
   readonly method: 'tr' | 'bdf2';
   /** Current solution. */
   readonly x: Float64Array;
-  /** Previous accepted solution (for the predictor). */
+  /** The two accepted solutions before x (for the predictor) and the steps between them. */
   private readonly previous: Float64Array;
+  private readonly older: Float64Array;
+  private olderStepSeconds = 0;
+  /** Accepted points behind x usable by the predictor (0, 1 or 2). */
+  private history = 0;
   private readonly trial: Float64Array;
   timeSeconds = 0;
   private lastStepSeconds = 0;
@@ -47,6 +51,7 @@ export class Simulator {
     this.method = options.method ?? 'tr';
     this.x = new Float64Array(this.system.size + 1);
     this.previous = new Float64Array(this.system.size + 1);
+    this.older = new Float64Array(this.system.size + 1);
     this.trial = new Float64Array(this.system.size + 1);
   }
 
@@ -119,13 +124,24 @@ export class Simulator {
     system.beginStep(targetSeconds, 1);
     const trial = this.trial;
     trial.set(x);
-    if (this.predict) {
+    if (this.predict && this.history >= 2) {
+      // Quadratic extrapolation through the last three accepted points (Lagrange form).
+      const h = stepSeconds;
+      const h1 = this.lastStepSeconds;
+      const h2 = this.olderStepSeconds;
+      const c0 = ((h + h1) * (h + h1 + h2)) / (h1 * (h1 + h2));
+      const c1 = -(h * (h + h1 + h2)) / (h1 * h2);
+      const c2 = (h * (h + h1)) / ((h1 + h2) * h2);
+      const prev = this.previous;
+      const older = this.older;
+      for (let i = 0; i < system.size; i++) trial[i] = c0 * x[i] + c1 * prev[i] + c2 * older[i];
+    } else if (this.predict && this.history >= 1) {
       // Linear extrapolation from the last two accepted points.
       const ratio = stepSeconds / this.lastStepSeconds;
       const prev = this.previous;
       for (let i = 0; i < system.size; i++) trial[i] = x[i] + (x[i] - prev[i]) * ratio;
     }
-    const outcome = this.newton.solve(trial, false);
+    const outcome = this.newton.solve(trial, false, true);
     this.pendingStep = stepSeconds;
     this.pendingTarget = targetSeconds;
     return outcome.converged;
@@ -139,13 +155,17 @@ export class Simulator {
   /** Accepts the last solved step. */
   commitStep(): void {
     const x = this.x;
+    this.older.set(this.previous);
     this.previous.set(x);
     x.set(this.trial);
+    this.olderStepSeconds = this.lastStepSeconds;
+    this.history = this.restart ? 1 : Math.min(2, this.history + 1);
     this.system.accept(x);
     this.timeSeconds = this.pendingTarget;
     this.lastStepSeconds = this.pendingStep;
     this.restart = false;
     this.predict = this.newton.outcome.iterations <= HARD_STEP_ITERATIONS;
+    if (!this.predict) this.history = 0;
     this.steps++;
   }
 

@@ -29,6 +29,8 @@ export class CircuitSystem {
   readonly devices: Device[];
   readonly devicesByRef: Map<string, Device>;
   readonly nonlinearDevices: Device[];
+  /** Devices with per-step work (resistors, most of a circuit's parts, have none). */
+  private readonly stepDevices: Device[];
   readonly matrix: SlotMatrix;
   readonly integrator = new Integrator();
   /** Right-hand side fixed over one step; trash entry at index `size`. */
@@ -90,6 +92,7 @@ export class CircuitSystem {
     this.devices = circuit.parts.map((part) => createDevice(part, binder));
     this.devicesByRef = new Map(this.devices.map((d) => [d.ref, d]));
     this.nonlinearDevices = this.devices.filter((d) => d.nonlinear);
+    this.stepDevices = this.devices.filter((d) => !d.stepless);
     this.nodeDiagonalSlots = Int32Array.from({ length: this.nodeCount }, (_, i) => this.matrix.slot(i, i));
     this.matrix.finalise();
     this.constantValues = new Float64Array(this.matrix.stampedSlots);
@@ -124,7 +127,7 @@ export class CircuitSystem {
   beginStep(seconds: number, sourceScale: number): void {
     const r = this.stepRhs;
     r.fill(0);
-    for (const d of this.devices) d.stampStep(r, this.integrator, seconds, sourceScale);
+    for (const d of this.stepDevices) d.stampStep(r, this.integrator, seconds, sourceScale);
   }
 
   /**
@@ -156,7 +159,7 @@ export class CircuitSystem {
 
   /** Moves every device's history on after a converged step. */
   accept(x: Float64Array): void {
-    for (const d of this.devices) d.accept(x, this.integrator);
+    for (const d of this.stepDevices) d.accept(x, this.integrator);
   }
 
   /** The part whose junction moved most in the last iteration (to blame when Newton fails). */
