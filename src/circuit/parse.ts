@@ -3,12 +3,11 @@
  * refs, models and pins across parts, then topology (topology.ts). Every
  * problem is one InputError naming the JSON path and what was expected.
  */
-import type { z } from 'zod';
 import { InputError } from '../errors.ts';
-import { describeInput } from '../units/engineering.ts';
+import { issueToInputError, withArticle, type At } from './issues.ts';
 import { jsonPath, parseJsonText } from './json-text.ts';
 import { BUILT_IN_MODELS, MODEL_PARAMETERS, builtInModelNames, completeModel, type ModelKind, type ModelParameterName } from './models.ts';
-import { circuitSchema, type IssueParams, type ModelEntry, type PartEntry, type WaveEntry } from './schema.ts';
+import { circuitSchema, type ModelEntry, type PartEntry, type WaveEntry } from './schema.ts';
 import { checkTopology } from './topology.ts';
 import type { Circuit, Drive, Model, Part, Wave } from './types.ts';
 
@@ -39,42 +38,6 @@ export function parseCircuit(json: unknown, pathPrefix = ''): Circuit {
   };
   checkTopology(circuit, pathPrefix);
   return circuit;
-}
-
-type At = (...segments: PropertyKey[]) => string;
-
-function issueToInputError(issue: z.core.$ZodIssue, at: At): InputError {
-  const path = [...issue.path];
-  let input = (issue as { input?: unknown }).input;
-  // An unknown "kind" or "shape": show that field, not the whole object.
-  const discriminator = (issue as { discriminator?: string }).discriminator;
-  if (discriminator && typeof input === 'object' && input !== null) input = (input as Record<string, unknown>)[discriminator];
-  const got = input === undefined ? 'missing' : `got ${describeInput(input)}`;
-  const zodDefault = issue.message.startsWith('Invalid input') || issue.message.startsWith('Too ');
-  switch (issue.code) {
-    case 'custom': {
-      const params = issue.params as IssueParams | undefined;
-      return new InputError(at(...path), params?.expected ?? issue.message, params?.detail);
-    }
-    case 'unrecognized_keys':
-      return new InputError(at(...path, issue.keys[0]), issue.message, 'unknown field');
-    case 'invalid_type':
-      return new InputError(at(...path), zodDefault ? withArticle(issue.expected) : issue.message, got);
-    case 'too_small':
-    case 'too_big': {
-      const detail = Array.isArray(input) ? `got ${input.length} item${input.length === 1 ? '' : 's'}` : got;
-      return new InputError(at(...path), issue.message, detail);
-    }
-    case 'invalid_value':
-      return new InputError(at(...path), zodDefault ? `one of ${issue.values.map((v) => JSON.stringify(v)).join(', ')}` : issue.message, got);
-    default:
-      return new InputError(at(...path), issue.message, input === undefined ? undefined : got);
-  }
-}
-
-/** "an led", "a diode": articles follow the sound, and "led" is spoken as letters. */
-function withArticle(word: string): string {
-  return `${/^(?:[aeio]|led|npn)/.test(word) ? 'an' : 'a'} ${word}`;
 }
 
 function checkUniqueRefs(parts: readonly PartEntry[], at: At): void {

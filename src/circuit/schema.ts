@@ -45,8 +45,8 @@ function quantity(description: string, expected: string, inRange: (value: number
 const positive = (value: number) => value > 0;
 const nonNegative = (value: number) => value >= 0;
 
-/** Strict object whose unknown-key error lists the allowed fields. */
-function strictObject<Shape extends z.ZodRawShape>(shape: Shape, description?: string) {
+/** Strict object whose unknown-key error lists the allowed fields (shared with the scenario format). */
+export function strictObject<Shape extends z.ZodRawShape>(shape: Shape, description?: string) {
   const allowed = Object.keys(shape).join(', ');
   const schema = z.strictObject(shape, {
     error: (issue) =>

@@ -7,7 +7,7 @@
  */
 import type { Circuit, Part, PartKind } from '../circuit/types.ts';
 import { InputError } from '../errors.ts';
-import type { At } from './issues.ts';
+import type { At } from '../circuit/issues.ts';
 
 const KIND_NAMES: Record<PartKind, string> = {
   resistor: 'a resistor',

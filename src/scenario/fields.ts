@@ -63,19 +63,7 @@ export const between =
   (value) =>
     value >= low && value <= high;
 
-/** Strict object whose unknown-key error lists the allowed fields. */
-export function strictObject<Shape extends z.ZodRawShape>(shape: Shape, description?: string) {
-  const allowed = Object.keys(shape).join(', ');
-  const schema = z.strictObject(shape, {
-    error: (issue) =>
-      issue.code === 'unrecognized_keys'
-        ? `only the fields ${allowed}`
-        : issue.code === 'invalid_type'
-          ? `an object with the fields ${allowed}`
-          : undefined,
-  });
-  return description ? schema.meta({ description }) : schema;
-}
+export { strictObject } from '../circuit/schema.ts';
 
 /** A choice among strings, with an error that lists them. */
 export function choice<const Values extends readonly [string, ...string[]]>(values: Values, description: string) {

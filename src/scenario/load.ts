@@ -12,7 +12,7 @@ import { InputError } from '../errors.ts';
 import { TWO_TONE_PRESETS } from '../audio/signals/two-tone.ts';
 import { channelGain, type ChannelSettings } from '../link/light-path/light-path.ts';
 import { checkReceiver, checkTransmitter } from './circuit-refs.ts';
-import { issueToInputError, type At } from './issues.ts';
+import { issueToInputError, type At } from '../circuit/issues.ts';
 import { SCENARIO_DEFAULTS, scenarioSchema, type ChannelEntry, type CircuitEntry, type LevelEntry, type ScenarioFile, type SourceEntry } from './schema.ts';
 import type { LightPathBlock, Scenario, SourceLevel, SourceSettings } from './types.ts';
 

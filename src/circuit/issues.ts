@@ -1,18 +1,19 @@
 /**
- * A zod issue from the scenario schema -> one InputError naming the JSON path
- * and what was expected ("receiver.output[1]: got 3; expected a node name…").
+ * A zod issue from a file schema -> one InputError naming the JSON path and
+ * what was expected ("parts[2].value: got "4.7kk"; expected ..."). Shared by the
+ * circuit and scenario formats.
  */
 import type { z } from 'zod';
-import type { IssueParams } from '../circuit/schema.ts';
 import { InputError } from '../errors.ts';
 import { describeInput } from '../units/engineering.ts';
+import type { IssueParams } from './schema.ts';
 
 export type At = (...segments: PropertyKey[]) => string;
 
 export function issueToInputError(issue: z.core.$ZodIssue, at: At): InputError {
   const path = [...issue.path];
   let input = (issue as { input?: unknown }).input;
-  // An unknown "kind": show that field, not the whole object.
+  // An unknown "kind" or "shape": show that field, not the whole object.
   const discriminator = (issue as { discriminator?: string }).discriminator;
   if (discriminator && typeof input === 'object' && input !== null) input = (input as Record<string, unknown>)[discriminator];
   const got = input === undefined ? 'missing' : `got ${describeInput(input)}`;
@@ -25,7 +26,7 @@ export function issueToInputError(issue: z.core.$ZodIssue, at: At): InputError {
     case 'unrecognized_keys':
       return new InputError(at(...path, issue.keys[0]), issue.message, 'unknown field');
     case 'invalid_type':
-      return new InputError(at(...path), zodDefault ? `a ${issue.expected}` : issue.message, got);
+      return new InputError(at(...path), zodDefault ? withArticle(issue.expected) : issue.message, got);
     case 'too_small':
     case 'too_big': {
       const detail = Array.isArray(input) ? `got ${input.length} item${input.length === 1 ? '' : 's'}` : got;
@@ -36,4 +37,9 @@ export function issueToInputError(issue: z.core.$ZodIssue, at: At): InputError {
     default:
       return new InputError(at(...path), issue.message, input === undefined ? undefined : got);
   }
+}
+
+/** "an led", "a diode": articles follow the sound, and "led" is spoken as letters. */
+export function withArticle(word: string): string {
+  return `${/^(?:[aeio]|led|npn)/.test(word) ? 'an' : 'a'} ${word}`;
 }
