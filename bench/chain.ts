@@ -20,11 +20,12 @@ if (scenario.source.kind !== 'recording') throw new Error('the benchmark wants a
 const decoded = decodeWav(readFileSync(path.resolve(base, scenario.source.file)), scenario.source.file);
 const recording = { samples: decoded.mono, sampleRateHertz: decoded.sampleRateHertz, label: scenario.source.file };
 
-function timed(seconds: number | null, options: RenderOptions): { wall: number; result: ReturnType<typeof renderScenario> } {
+function timed(seconds: number | null, options: RenderOptions): { wall: number; cpu: number; result: ReturnType<typeof renderScenario> } {
   const samples = seconds === null ? recording.samples : recording.samples.subarray(0, Math.round(seconds * recording.sampleRateHertz));
   const started = performance.now();
+  const cpu = process.cpuUsage();
   const result = renderScenario(scenario, { ...options, recording: { ...recording, samples } });
-  return { wall: (performance.now() - started) / 1000, result };
+  return { wall: (performance.now() - started) / 1000, cpu: process.cpuUsage(cpu).user / 1e6, result };
 }
 
 function relativeRmsError(a: Float64Array, b: Float64Array): number {
@@ -44,18 +45,16 @@ const duration = r.durationSeconds;
 const solver = r.solver;
 const stepsEach = solver.transmitterSteps;
 console.log(`scenario: ${scenarioFile} (${scenario.title ?? 'untitled'}), clip ${duration.toFixed(2)} s, internal rate ${solver.internalRateHertz / 1000} kHz`);
-console.log(`fast path: ${full.wall.toFixed(2)} s wall for ${duration.toFixed(2)} s of audio`);
-console.log(`time per internal step (both circuits): ${((full.wall / stepsEach) * 1e6).toFixed(3)} µs`);
+console.log(`fast path: ${full.wall.toFixed(2)} s wall, ${full.cpu.toFixed(2)} s CPU for ${duration.toFixed(2)} s of audio (CPU-time real-time factor ${(duration / full.cpu).toFixed(2)})`);
+console.log(`time per internal step: transmitter ${((solver.transmitterSeconds / stepsEach) * 1e6).toFixed(3)} µs, receiver ${((solver.receiverSeconds / solver.receiverSteps) * 1e6).toFixed(3)} µs, whole chain ${((full.wall / stepsEach) * 1e6).toFixed(3)} µs`);
 console.log(`Newton iterations per step: ${(solver.newtonIterations / (solver.transmitterSteps + solver.receiverSteps)).toFixed(3)}`);
 
-// Per-circuit cost: each circuit alone is not separable inside one render, so time a render with
-// the receiver's share measured from a transmitter-only pass is not possible; report the whole.
 const excerpt = 2;
 const fast = timed(excerpt, {});
 const reference = timed(excerpt, { solver: { substeps: 8, tolerances: TIGHT_TOLERANCES } });
 console.log(`accuracy (${excerpt} s excerpt): far end vs reference (8× smaller steps, tight Newton): ${relativeRmsError(fast.result.farEndVolts, reference.result.farEndVolts).toExponential(3)} relative rms`);
 const straightforward = timed(excerpt, { solver: { linearAlgebra: 'dense' } });
 console.log(`straightforward path (dense elimination each iteration): ${straightforward.wall.toFixed(2)} s vs fast ${fast.wall.toFixed(2)} s on ${excerpt} s: ratio ${(straightforward.wall / fast.wall).toFixed(2)}×`);
-console.log(`peak resident memory: ${(process.resourceUsage().maxRSS / 1024).toFixed(0)} MB`);
+console.log(`peak resident memory: ${(process.resourceUsage().maxRSS / 1024).toFixed(0)} MB (this process, all runs above)`);
 console.log(`cores: 1 used (single thread)`);
 console.log(`realtime-factor: ${(duration / full.wall).toFixed(2)}`);

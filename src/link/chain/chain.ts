@@ -190,6 +190,8 @@ export function renderScenario(scenario: Scenario, options: RenderOptions = {}):
   const farChunk = new Float64Array(chunk + 1);
   const farEnd = new Float64Array(options.onFarEnd ? 0 : total);
   const farStats = { squares: 0, peak: 0, count: 0 };
+  let transmitterMs = 0;
+  let receiverMs = 0;
   let previousMicVolts = 0;
   let previousLightWatts = detector.light.upstreamValue;
   let farWritten = -latency; // the first `latency` decimated samples are filter fill
@@ -206,6 +208,7 @@ export function renderScenario(scenario: Scenario, options: RenderOptions = {}):
     for (const tap of micTaps) for (let i = 0; i < n; i++) if (start + i < total) tap.push(volts[i]);
     const m = up.process(volts, internal);
 
+    let clock = performance.now();
     for (let i = 0; i < m; i++) {
       step++;
       // Substeps see the input interpolated linearly, as the trapezoidal rule assumes between samples.
@@ -233,6 +236,7 @@ export function renderScenario(scenario: Scenario, options: RenderOptions = {}):
       for (const tap of txTaps) tap.push((tap.source as { probe: (x: Float64Array) => number }).probe(x));
     }
 
+    transmitterMs += performance.now() - clock;
     const emitted = emitterWatts.subarray(0, m);
     const detected = detectorWatts.subarray(0, m);
     lightPath.process(emitted, detected);
@@ -241,6 +245,7 @@ export function renderScenario(scenario: Scenario, options: RenderOptions = {}):
     for (const tap of detectorTaps) for (let i = 0; i < m; i++) tap.push(detected[i]);
 
     const rxStart = step - m;
+    clock = performance.now();
     for (let i = 0; i < m; i++) {
       const index = rxStart + i;
       const watts = photoAmperes[i] / responsivity;
@@ -259,6 +264,7 @@ export function renderScenario(scenario: Scenario, options: RenderOptions = {}):
       for (const tap of rxTaps) tap.push((tap.source as { probe: (x: Float64Array) => number }).probe(x));
     }
 
+    receiverMs += performance.now() - clock;
     const produced = down.process(speaker.subarray(0, m), farChunk);
     const from = Math.max(0, -farWritten);
     const to = Math.min(produced, total - farWritten);
@@ -299,6 +305,8 @@ export function renderScenario(scenario: Scenario, options: RenderOptions = {}):
       newtonIterations: tx.newton.totalIterations + rx.newton.totalIterations,
       subdividedSteps: tx.subdividedSteps + rx.subdividedSteps,
       wallSeconds: (Date.now() - startedMs) / 1000,
+      transmitterSeconds: transmitterMs / 1000,
+      receiverSeconds: receiverMs / 1000,
     },
   });
   return { sourcePascals: source.pascals, farEndVolts: farEnd, taps, report };

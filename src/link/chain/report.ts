@@ -61,6 +61,9 @@ export interface RenderReport {
     newtonIterations: number;
     subdividedSteps: number;
     wallSeconds: number;
+    /** Time spent stepping each circuit (its statistics and taps included), seconds. */
+    transmitterSeconds: number;
+    receiverSeconds: number;
   };
 }
 
