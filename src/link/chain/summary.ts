@@ -1,7 +1,8 @@
 import type { RenderReport } from './report.ts';
 
 const ms = (seconds: number): string => `${(seconds * 1000).toFixed(1)} ms`;
-const mA = (amperes: number): string => `${(amperes * 1000).toFixed(2)} mA`;
+// Leakage of a cut-off LED (pA, either sign) prints as 0.00, not -0.00.
+const mA = (amperes: number): string => `${(Math.abs(amperes) < 5e-6 ? 0 : amperes * 1000).toFixed(2)} mA`;
 const percent = (fraction: number): string => `${(fraction * 100).toFixed(fraction < 0.01 ? 2 : 1)} %`;
 
 /** What happened in a render, in plain words (for the terminal and the page). */
