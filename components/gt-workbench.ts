@@ -2,46 +2,27 @@ import { LitElement, html, nothing } from 'lit';
 import { customElement, state } from 'lit/decorators.js';
 import { isUserFacing } from '../src/errors.ts';
 import type { Scenario } from '../src/scenario/index.ts';
-import type { BiasTables, RenderedLink } from '../src/worker/messages.ts';
-import { applyEdit, withoutLabel } from './support/apply-edit.ts';
+import { applyEdit } from './support/apply-edit.ts';
 import { DEMOS, bundledRecordingUrl, fetchBundledRecording } from './support/demos.ts';
 import type { BlockId } from './support/field-catalogue.ts';
 import { download, readWavFile, safeStem, wavBytes } from './support/file-actions.ts';
-import { RenderClient, RenderFailure } from './support/render-client.ts';
+import { RenderController, type Prepared } from './support/render-controller.ts';
 import { baseName, docFromText, loadDoc, readAt, type ScenarioDoc } from './support/scenario-doc.ts';
-import { exportSignal, listenSignals, rmsAboutMean, shadingOf, tracesOf } from './support/run-views.ts';
+import { exportChoices, exportSignal, listenSignals, rmsAboutMean } from './support/run-views.ts';
 import { workbenchStyles } from './support/workbench-styles.ts';
+import { SnapshotController } from './support/snapshot-controller.ts';
 import * as store from './support/workbench-store.ts';
 import type { FieldEditDetail } from './gt-value-field.ts';
-import type { RenderState } from './gt-render-bar.ts';
 import type { TimeRange } from './gt-trace-stack.ts';
 import './gt-bias-table.ts';
 import './gt-block-settings.ts';
 import './gt-cautions.ts';
 import './gt-chain-strip.ts';
-import './gt-compare-panel.ts';
 import './gt-file-bar.ts';
 import './gt-listen-bar.ts';
-import './gt-margins-panel.ts';
 import './gt-parts-table.ts';
 import './gt-render-bar.ts';
-import './gt-report-view.ts';
-import './gt-spectrum-view.ts';
-import './gt-trace-stack.ts';
-import './gt-transfer-view.ts';
-
-type ViewId = 'traces' | 'spectrum' | 'transfer' | 'report' | 'compare' | 'margins';
-const VIEWS: [ViewId, string][] = [
-  ['traces', 'Traces'],
-  ['spectrum', 'Spectrum'],
-  ['transfer', 'Transfer'],
-  ['report', 'Report'],
-  ['compare', 'Compare'],
-  ['margins', 'Margins'],
-];
-
-/** Quiet time after an edit before the link re-renders by itself. */
-const RENDER_DEBOUNCE_MS = 600;
+import './gt-view-panel.ts';
 
 /**
  * The workbench page: owns the scenario being edited, the last good render,
@@ -57,28 +38,13 @@ export class GtWorkbench extends LitElement {
   @state() private demoId = '';
   @state() private fieldErrors: Record<string, string> = {};
   @state() private recording: store.StoredRecording | null = null;
-  @state() private run: RenderedLink | null = null;
-  /** The document the shown render was made from (identity tells whether it is stale). */
-  @state() private runJson: ScenarioDoc['json'] | null = null;
-  @state() private bias: BiasTables | null = null;
-  @state() private biasJson: ScenarioDoc['json'] | null = null;
-  @state() private renderState: RenderState = 'idle';
-  @state() private progress = 0;
-  @state() private renderMessage = '';
-  @state() private excerptSeconds: number | null = 3;
   @state() private block: BlockId = 'transmitter';
-  @state() private view: ViewId = 'traces';
   @state() private notice: { tone: 'error' | 'info'; text: string } | null = null;
-  @state() private snapshots: store.SnapshotMeta[] = [];
-  @state() private compared: store.Snapshot | null = null;
   @state() private selection: TimeRange | null = null;
   @state() private playhead: number | null = null;
 
-  private client = new RenderClient();
-  /** Completed renders and bias solves, shown as data-renders / data-bias-solves for scripts and tests. */
-  private renderCount = 0;
-  private biasCount = 0;
-  private renderTimer = 0;
+  private renders = new RenderController(this, () => this.prepareRender());
+  private snapshots = new SnapshotController(this);
   private saveTimer = 0;
 
   override connectedCallback(): void {
@@ -88,22 +54,16 @@ export class GtWorkbench extends LitElement {
     void this.restore();
   }
 
-  override disconnectedCallback(): void {
-    super.disconnectedCallback();
-    this.client.dispose();
-  }
-
   // ---- start-up -------------------------------------------------------------------------------
 
   private async restore(): Promise<void> {
     try {
-      const [saved, recording, snapshots] = await Promise.all([store.loadSavedScenario(), store.loadSavedRecording(), store.listSnapshots()]);
-      this.snapshots = snapshots;
+      const [saved, recording] = await Promise.all([store.loadSavedScenario(), store.loadSavedRecording(), this.snapshots.load()]);
       this.recording = recording ?? null;
       if (saved) {
         try {
           this.setDoc(saved, loadDoc(saved));
-          this.scheduleRender(0);
+          this.renders.schedule(0);
           return;
         } catch (error) {
           this.notice = { tone: 'error', text: `The scenario kept from last time no longer loads (${(error as Error).message}); a demo is loaded instead.` };
@@ -124,7 +84,7 @@ export class GtWorkbench extends LitElement {
       this.demoId = id;
       this.fieldErrors = {};
       this.persistScenario(0);
-      this.scheduleRender(0);
+      this.renders.schedule(0);
     } catch (error) {
       this.showError(`Demo ${id} does not load`, error);
     }
@@ -149,7 +109,7 @@ export class GtWorkbench extends LitElement {
     this.fieldErrors = rest;
     this.setDoc(outcome.doc, outcome.scenario);
     this.persistScenario();
-    this.scheduleRender();
+    this.renders.schedule();
   }
 
   private persistScenario(delayMs = 300): void {
@@ -161,61 +121,25 @@ export class GtWorkbench extends LitElement {
 
   // ---- rendering ------------------------------------------------------------------------------
 
-  private scheduleRender(delayMs = RENDER_DEBOUNCE_MS): void {
-    clearTimeout(this.renderTimer);
-    this.renderState = this.client.busy ? 'rendering' : 'waiting';
-    this.renderTimer = window.setTimeout(() => void this.startRender(), delayMs);
-  }
-
-  private async startRender(): Promise<void> {
+  /** The request for the current document, fetching a bundled recording if the scenario names one. */
+  private async prepareRender(): Promise<Prepared> {
     const doc = this.doc;
     const scenario = this.scenario;
-    if (!doc || !scenario) return;
+    if (!doc || !scenario) return null;
     let recording: store.StoredRecording | null = null;
     if (scenario.source.kind === 'recording') {
       recording = await this.recordingFor(scenario.source.file, doc);
-      if (!recording) {
-        this.renderState = 'failed';
-        this.renderMessage = `The source is the recording "${scenario.source.file}": import that WAV (or drop it on the page).`;
-        return;
-      }
+      if (!recording) return { problem: `The source is the recording "${scenario.source.file}": import that WAV (or drop it on the page).` };
     }
-    this.renderState = 'rendering';
-    this.progress = 0;
-    this.renderMessage = '';
-    try {
-      const result = await this.client.render(
-        {
-          scenario: doc.json,
-          files: {},
-          label: doc.label,
-          recording: recording ? { samples: recording.samples, sampleRateHertz: recording.sampleRateHertz, label: recording.name } : null,
-          excerptSeconds: this.excerptSeconds,
-        },
-        {
-          onBias: (bias) => {
-            this.bias = bias;
-            this.biasJson = doc.json;
-            this.dataset.biasSolves = String(++this.biasCount);
-          },
-          onProgress: (fraction) => (this.progress = fraction),
-        },
-      );
-      this.run = result;
-      this.runJson = doc.json;
-      this.renderState = 'idle';
-      this.dataset.renders = String(++this.renderCount);
-    } catch (error) {
-      if (error instanceof RenderFailure && error.cancelled) return;
-      this.renderState = 'failed';
-      this.renderMessage = withoutLabel((error as Error).message, doc.label);
-    }
-  }
-
-  private cancelRender(): void {
-    clearTimeout(this.renderTimer);
-    this.client.cancel();
-    this.renderState = 'idle';
+    return {
+      doc,
+      request: {
+        scenario: doc.json,
+        files: {},
+        label: doc.label,
+        recording: recording ? { samples: recording.samples, sampleRateHertz: recording.sampleRateHertz, label: recording.name } : null,
+      },
+    };
   }
 
   /** The recording a scenario names: the one imported or kept, else a bundled sample. */
@@ -245,14 +169,14 @@ export class GtWorkbench extends LitElement {
       this.notice = { tone: 'info', text: `Source: ${file.name} (${(recording.samples.length / recording.sampleRateHertz).toFixed(2)} s at ${recording.sampleRateHertz} Hz).` };
       await store.saveRecording(recording).catch(() => undefined);
       this.persistScenario(0);
-      this.scheduleRender(0);
+      this.renders.schedule(0);
     } catch (error) {
       this.showError(`Could not use ${file.name} as the source; the previous source and render are kept`, error);
     }
   }
 
   private exportWav(id: string): void {
-    const run = this.run;
+    const run = this.renders.run;
     const scenario = this.scenario;
     if (!run || !scenario || !this.doc) return;
     const signal = exportSignal(run, id, scenario);
@@ -286,7 +210,7 @@ export class GtWorkbench extends LitElement {
       this.fieldErrors = {};
       this.notice = { tone: 'info', text: `Opened ${scenarioEntry[0]}.` };
       this.persistScenario(0);
-      this.scheduleRender(0);
+      this.renders.schedule(0);
     } catch (error) {
       this.showError(`Could not open ${scenarioEntry[0]}; the current scenario is kept`, error);
     }
@@ -308,43 +232,23 @@ export class GtWorkbench extends LitElement {
   // ---- snapshots ------------------------------------------------------------------------------
 
   private async keepSnapshot(name: string): Promise<void> {
-    const run = this.run;
-    if (!run || !this.runJson || !this.doc) return;
-    const snapshot: store.Snapshot = {
-      id: crypto.randomUUID(),
-      name,
-      createdIso: new Date().toISOString(),
-      label: this.doc.label,
-      renderedSeconds: run.renderedSeconds,
-      json: this.runJson,
-      metrics: run.metrics,
-      summary: run.summary,
-      farEnd: Float32Array.from(run.farEndVolts),
-      sampleRateHertz: run.sampleRateHertz,
-    };
+    const { run, runJson } = this.renders;
+    if (!run || !runJson || !this.doc) return;
     try {
-      this.snapshots = await store.saveSnapshot(snapshot);
+      await this.snapshots.keep(name, run, runJson, this.doc.label);
       this.notice = { tone: 'info', text: `Kept “${name}”.` };
     } catch (error) {
       this.showError('Could not keep the snapshot', error);
     }
   }
 
-  private async compareWith(id: string | null): Promise<void> {
-    this.compared = id === null ? null : ((await store.loadSnapshot(id)) ?? null);
-  }
-
-  private async deleteSnapshot(id: string): Promise<void> {
-    this.snapshots = await store.deleteSnapshot(id);
-    if (this.compared?.id === id) this.compared = null;
-  }
-
   // ---- view -----------------------------------------------------------------------------------
 
   override render() {
     const doc = this.doc;
-    const run = this.run;
-    const stale = run !== null && this.runJson !== doc?.json;
+    const r = this.renders;
+    const run = r.run;
+    const stale = run !== null && r.runJson !== doc?.json;
     const title = doc ? String(readAt(doc.json, 'title') ?? doc.label) : 'loading…';
     const mic = run?.taps.find((t) => t.name === 'microphone.volts');
     return html`
@@ -356,7 +260,7 @@ export class GtWorkbench extends LitElement {
       <gt-file-bar
         .demos=${DEMOS.map((d) => ({ id: d.id, label: d.title }))}
         .currentDemo=${this.demoId}
-        .exportable=${run ? listenSignals(run, null).map((s) => ({ id: s.id, label: s.label })) : []}
+        .exportable=${run ? exportChoices(run) : []}
         @demo-load=${(e: CustomEvent<string>) => this.loadDemo(e.detail)}
         @scenario-files=${(e: CustomEvent<File[]>) => void this.openScenarioFiles(e.detail)}
         @scenario-save=${this.saveScenarioFile}
@@ -371,38 +275,46 @@ export class GtWorkbench extends LitElement {
       <gt-chain-strip
         .json=${doc?.json ?? null}
         .report=${run?.report ?? null}
-        .bias=${this.bias}
+        .bias=${r.bias}
         .micRmsVolts=${mic ? rmsAboutMean(mic.samples) : null}
         .selected=${this.block}
         .stale=${stale}
         @block-select=${(e: CustomEvent<BlockId>) => (this.block = e.detail)}
       ></gt-chain-strip>
       <gt-render-bar
-        .state=${this.renderState}
-        .fraction=${this.progress}
-        .message=${this.renderMessage}
-        .excerptSeconds=${this.excerptSeconds}
+        .state=${r.state}
+        .fraction=${r.progress}
+        .message=${r.message}
+        .excerptSeconds=${r.excerptSeconds}
         .stale=${stale}
         .lastRun=${run ? `${run.renderedSeconds.toFixed(2)} s of ${run.fullSeconds.toFixed(2)} s in ${run.wallSeconds.toFixed(1)} s (${(run.renderedSeconds / Math.max(1e-9, run.wallSeconds)).toFixed(2)}× real time)` : ''}
-        @render-now=${() => this.scheduleRender(0)}
-        @render-cancel=${this.cancelRender}
-        @excerpt-change=${(e: CustomEvent<number | null>) => ((this.excerptSeconds = e.detail), this.scheduleRender(0))}
+        @render-now=${() => this.renders.schedule(0)}
+        @render-cancel=${() => r.cancel()}
+        @excerpt-change=${(e: CustomEvent<number | null>) => ((r.excerptSeconds = e.detail), r.schedule(0))}
       ></gt-render-bar>
       <div class="split">
         <section class="settings" @field-edit=${this.onFieldEdit}>${this.renderSettings()}</section>
         <section class="views">
-          <nav role="tablist">
-            ${VIEWS.map(([id, label]) => html`<button role="tab" data-view=${id} aria-selected=${this.view === id ? 'true' : 'false'} @click=${() => (this.view = id)}>${label}</button>`)}
-            ${stale ? html`<span class="stale-note">showing the render of earlier settings</span>` : nothing}
-          </nav>
-          <div class="view">${this.renderView()}</div>
+          <gt-view-panel
+            .run=${run}
+            .runJson=${r.runJson}
+            .stale=${stale}
+            .renderState=${r.state}
+            .playheadSeconds=${this.playhead}
+            .snapshots=${this.snapshots.list}
+            .compared=${this.snapshots.compared}
+            @range-select=${(e: CustomEvent<TimeRange | null>) => (this.selection = e.detail)}
+            @snapshot-keep=${(e: CustomEvent<{ name: string }>) => void this.keepSnapshot(e.detail.name)}
+            @snapshot-compare=${(e: CustomEvent<{ id: string | null }>) => void this.snapshots.compareWith(e.detail.id)}
+            @snapshot-delete=${(e: CustomEvent<{ id: string }>) => void this.snapshots.remove(e.detail.id)}
+          ></gt-view-panel>
         </section>
       </div>
       <footer>
         <gt-listen-bar
-          .signals=${run ? listenSignals(run, this.compared) : []}
+          .signals=${run ? listenSignals(run, this.snapshots.compared) : []}
           .loopRange=${this.selection}
-          .abPair=${this.compared ? { a: 'far-end', b: 'snapshot', bLabel: `“${this.compared.name}”` } : null}
+          .abPair=${this.snapshots.compared ? { a: 'far-end', b: 'snapshot', bLabel: `“${this.snapshots.compared.name}”` } : null}
           @playhead=${(e: CustomEvent<number | null>) => (this.playhead = e.detail)}
         ></gt-listen-bar>
       </footer>
@@ -419,52 +331,12 @@ export class GtWorkbench extends LitElement {
         ? html`<gt-parts-table .block=${circuitBlock} .circuit=${readAt(doc.json, `${circuitBlock}.circuit`)} .errors=${this.fieldErrors}></gt-parts-table>
             <gt-bias-table
               .heading=${circuitBlock === 'transmitter' ? 'Transmitter bias point' : 'Receiver bias point (resting light)'}
-              .bias=${this.bias?.[circuitBlock] ?? null}
-              .addedParts=${this.bias?.addedParts ?? []}
-              .stale=${this.biasJson !== doc.json}
+              .bias=${this.renders.bias?.[circuitBlock] ?? null}
+              .addedParts=${this.renders.bias?.addedParts ?? []}
+              .stale=${this.renders.biasJson !== doc.json}
             ></gt-bias-table>`
         : nothing}
     </gt-block-settings>`;
-  }
-
-  private renderView() {
-    const run = this.run;
-    if (this.view === 'margins') return html`<gt-margins-panel></gt-margins-panel>`;
-    if (this.view === 'compare') {
-      return html`<gt-compare-panel
-        .snapshots=${this.snapshots}
-        .current=${run && this.runJson ? { json: this.runJson, metrics: run.metrics, renderedSeconds: run.renderedSeconds } : null}
-        .compared=${this.compared}
-        @snapshot-keep=${(e: CustomEvent<{ name: string }>) => void this.keepSnapshot(e.detail.name)}
-        @snapshot-compare=${(e: CustomEvent<{ id: string | null }>) => void this.compareWith(e.detail.id)}
-        @snapshot-delete=${(e: CustomEvent<{ id: string }>) => void this.deleteSnapshot(e.detail.id)}
-      ></gt-compare-panel>`;
-    }
-    if (!run) return html`<p class="empty">${this.renderState === 'failed' ? 'No render yet (see the message above).' : 'Rendering the first excerpt…'}</p>`;
-    switch (this.view) {
-      case 'traces':
-        return html`<gt-trace-stack
-          .traces=${tracesOf(run)}
-          .shading=${shadingOf(run)}
-          .playheadSeconds=${this.playhead}
-          @range-select=${(e: CustomEvent<TimeRange | null>) => (this.selection = e.detail)}
-        ></gt-trace-stack>`;
-      case 'spectrum':
-        return html`<gt-spectrum-view .spectra=${run.spectra} .colours=${{ source: '#c9a0ff', 'far end': '#7bd88f', 'LED current': '#ffb547' }}></gt-spectrum-view>`;
-      case 'transfer': {
-        const mic = run.taps.find((t) => t.name === 'microphone.volts');
-        const led = run.taps.find((t) => t.name === 'transmitter.led');
-        return html`<gt-transfer-view
-          .micVolts=${mic?.samples ?? null}
-          .ledAmperes=${led?.samples ?? null}
-          .factor=${led ? Math.round(led.sampleRateHertz / run.sampleRateHertz) : 1}
-          .cutoffAmperes=${run.report.led.cutoffThresholdAmperes}
-          .restingAmperes=${run.report.led.restingAmperes}
-        ></gt-transfer-view>`;
-      }
-      case 'report':
-        return html`<gt-report-view .run=${run}></gt-report-view>`;
-    }
   }
 }
 

@@ -74,6 +74,22 @@ export function listenSignals(run: RenderedLink, snapshot: Snapshot | null): Pla
   return signals;
 }
 
+const exportCache = new WeakMap<RenderedLink, { id: string; label: string }[]>();
+
+/** What can be exported as WAV: the far end, the source and every tap. */
+export function exportChoices(run: RenderedLink): { id: string; label: string }[] {
+  let choices = exportCache.get(run);
+  if (!choices) {
+    choices = [
+      { id: 'far-end', label: 'far end' },
+      { id: 'source', label: 'clean source' },
+      ...run.taps.map((t) => ({ id: `tap:${t.name}`, label: `tap ${LABELS[t.name] ?? t.name}` })),
+    ];
+    exportCache.set(run, choices);
+  }
+  return choices;
+}
+
 /** The WAV for a signal id: the far end as the CLI writes it, the source normalised to its peak, taps in raw SI units. */
 export function exportSignal(run: RenderedLink, id: string, scenario: Scenario): ExportSignal | null {
   if (id === 'far-end') {

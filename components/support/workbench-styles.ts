@@ -36,11 +36,6 @@ export const workbenchStyles = css`
   .split { display: grid; grid-template-columns: minmax(22rem, 30rem) minmax(0, 1fr); gap: 0.8rem; flex: 1; min-height: 0; }
   section { background: var(--gt-panel); border: 1px solid var(--gt-line); border-radius: 6px; padding: 0.6rem 0.7rem; min-width: 0; }
   .settings { overflow: auto; max-height: calc(100vh - 17rem); }
-  nav { display: flex; gap: 0.2rem; border-bottom: 1px solid var(--gt-line); margin-bottom: 0.5rem; align-items: flex-end; }
-  nav button { font: inherit; font-size: 0.82rem; background: none; color: var(--gt-muted); border: none; border-bottom: 2px solid transparent; padding: 0.25rem 0.7rem; cursor: pointer; }
-  nav button[aria-selected='true'] { color: var(--gt-text); border-bottom-color: var(--gt-accent); }
-  .stale-note { margin-left: auto; font-size: 0.75rem; color: var(--gt-accent); padding-bottom: 0.3rem; }
-  .empty { color: var(--gt-muted); font-size: 0.85rem; }
   footer { position: sticky; bottom: 0; background: #101317; border-top: 1px solid var(--gt-line); padding: 0.45rem 0.2rem 0.55rem; margin: 0 -0.9rem; padding-left: 0.9rem; padding-right: 0.9rem; z-index: 5; }
   @media (max-width: 1000px) { .split { grid-template-columns: 1fr; } .settings { max-height: none; } }
 `;

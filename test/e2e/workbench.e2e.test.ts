@@ -28,17 +28,24 @@ async function count(attribute: 'renders' | 'bias-solves'): Promise<number> {
   return Number((await workbench().getAttribute(`data-${attribute}`)) ?? '0');
 }
 
-/** Waits until more than `after` renders have completed and nothing is rendering or waiting. */
+/** Waits until more than `after` renders have completed and nothing is rendering or waiting; fails at once with the page's message if a render fails. */
 async function renderedAfter(after: number, timeout = 60_000): Promise<void> {
-  await page.waitForFunction(
+  const handle = await page.waitForFunction(
     (n) => {
       const host = document.querySelector('gt-workbench');
-      const bar = host?.shadowRoot?.querySelector('gt-render-bar')?.shadowRoot?.querySelector('[data-render-state]');
-      return Number(host?.getAttribute('data-renders') ?? '0') > n && bar?.getAttribute('data-render-state') === 'idle';
+      const bar = host?.shadowRoot?.querySelector('gt-render-bar')?.shadowRoot;
+      const state = bar?.querySelector('[data-render-state]')?.getAttribute('data-render-state');
+      if (state === 'failed') return `render failed: ${bar?.querySelector('[data-render-error]')?.textContent ?? '(no message)'}`;
+      return Number(host?.getAttribute('data-renders') ?? '0') > n && state === 'idle' ? 'ok' : false;
     },
     after,
     { timeout },
   );
+  const outcome = await handle.jsonValue();
+  if (outcome !== 'ok') {
+    await shot('failed-render');
+    throw new Error(String(outcome));
+  }
 }
 
 /** Pixels of a plot canvas within ±30 of a colour in each channel (the trace's stroke). */
