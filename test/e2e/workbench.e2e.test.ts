@@ -107,6 +107,26 @@ describe('the workbench page in Chromium', () => {
     const lastRun = await page.locator('[data-last-run]').innerText();
     await page.locator('gt-render-bar [data-excerpt]').selectOption('all');
     await expect.poll(() => page.locator('gt-render-bar progress').evaluate((p) => (p as HTMLProgressElement).value), { timeout: 20_000 }).toBeGreaterThan(0);
+    // The page stays responsive while the worker renders: timers on the main thread run on time.
+    // (The whole 11 s source takes several seconds to render here; a much faster solver would need a longer source for this check.)
+    const worstTimerGapMs = await page.evaluate(
+      () =>
+        new Promise<number>((done) => {
+          let worst = 0;
+          let last = performance.now();
+          const timer = setInterval(() => {
+            const now = performance.now();
+            worst = Math.max(worst, now - last);
+            last = now;
+          }, 10);
+          setTimeout(() => {
+            clearInterval(timer);
+            done(worst);
+          }, 600);
+        }),
+    );
+    expect(await page.locator('gt-render-bar [data-render-state]').getAttribute('data-render-state')).toBe('rendering');
+    expect(worstTimerGapMs).toBeLessThan(150);
     await page.locator('gt-render-bar [data-cancel]').click();
     await expect.poll(() => page.locator('gt-render-bar [data-render-state]').getAttribute('data-render-state')).toBe('idle');
     expect(await count('renders')).toBe(renders);
