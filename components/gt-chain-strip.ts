@@ -180,7 +180,7 @@ export class GtChainStrip extends LitElement {
         id: 'solver',
         name: 'Solver',
         key: r ? `${formatFigure(r.internalRateHertz, 'Hz')}` : '—',
-        sub: r ? `${(r.durationSeconds / Math.max(1e-9, r.solver.wallSeconds)).toFixed(2)}× real time` : '',
+        sub: r ? `solver alone ${(r.durationSeconds / Math.max(1e-9, r.solver.wallSeconds)).toFixed(2)}× real time` : '',
         badges: r && r.solver.subdividedSteps > 0 ? [{ text: `${r.solver.subdividedSteps} steps subdivided`, tone: 'warn' }] : [],
       },
     ];
