@@ -99,7 +99,9 @@ export class GtListenBar extends LitElement {
         : nothing}
       <div class="row">
         <button class="primary" data-play data-playing=${this.playing ? 'true' : 'false'} ?disabled=${!selected} @click=${this.togglePlay}>
-          ${this.playing ? '■ Stop' : '▶ Play'}
+          ${this.playing
+            ? html`<svg viewBox="0 0 16 16" width="10" height="10" aria-hidden="true"><rect x="2" y="2" width="12" height="12" fill="currentColor"/></svg> Stop`
+            : '▶ Play'}
         </button>
         <button data-rewind title="back to the start" aria-label="back to the start" @click=${this.rewind}>
           <svg viewBox="0 0 16 16" width="12" height="12" aria-hidden="true"><path d="M3 2v12M14 2L5 8l9 6z" fill="currentColor" stroke="currentColor" stroke-width="1.5"/></svg>
