@@ -1,13 +1,14 @@
 /**
  * Parameter sweeps: any numeric setting of a scenario file, addressed by its
- * path (scenario/set-value.ts), stepped over a linear or logarithmic range;
+ * path (scenario/set-value.ts), or the talker level itself ("level", in dB
+ * SPL), stepped over a linear or logarithmic range;
  * several axes make a grid (the first axis changes slowest). Every point is
  * loaded and checked before anything renders, so a value out of range stops
  * the sweep at once with the path and value named. Grid values come from the
  * integer step index (never by repeated addition), so they repeat exactly.
  */
 import { InputError } from '../errors.ts';
-import type { Recording } from '../link/chain/source.ts';
+import { targetLevelDbSpl, type Recording } from '../link/chain/source.ts';
 import { loadScenario, setScenarioValue, type ScenarioResolver } from '../scenario/index.ts';
 import type { Scenario } from '../scenario/types.ts';
 import { readEngineering } from '../units/engineering.ts';
@@ -79,10 +80,18 @@ export function sweepGrid(axes: readonly SweepAxis[]): number[][] {
   return grid;
 }
 
+/**
+ * Not a path in the file: the talker level at the microphone in dB SPL,
+ * however the scenario states it (dB SPL or vocal effort and distance).
+ */
+export const LEVEL_AXIS = 'level';
+
 export interface SweepPoint {
   values: number[];
   scenario: Scenario;
   recording: Recording | undefined;
+  /** Talker level at the microphone at this point, dB SPL. */
+  levelDbSpl: number;
 }
 
 /**
@@ -100,12 +109,18 @@ export function sweepPoints(
 ): SweepPoint[] {
   return sweepGrid(axes).map((values) => {
     let changed = json;
+    let levelDbSpl: number | null = null;
     values.forEach((value, i) => {
-      changed = setScenarioValue(changed, axes[i].path, value, resolve);
+      if (axes[i].path === LEVEL_AXIS) levelDbSpl = value;
+      else changed = setScenarioValue(changed, axes[i].path, value, resolve);
     });
     let scenario: Scenario;
     try {
       scenario = adjust(loadScenario(changed, resolve, label));
+      if (levelDbSpl !== null) {
+        if (!(levelDbSpl >= 0 && levelDbSpl <= 160)) throw new InputError(LEVEL_AXIS, 'a level from 0 to 160 dB SPL', `got ${levelDbSpl}`);
+        scenario = { ...scenario, source: { ...scenario.source, level: { kind: 'spl', dbSpl: levelDbSpl } } };
+      }
     } catch (error) {
       if (error instanceof InputError) {
         const at = axes.map((axis, i) => `${axis.path}=${values[i]}`).join(', ');
@@ -113,12 +128,13 @@ export function sweepPoints(
       }
       throw error;
     }
-    return { values, ...shortenSource(scenario, recording, excerptSeconds) };
+    return { values, levelDbSpl: targetLevelDbSpl(scenario.source.level), ...shortenSource(scenario, recording, excerptSeconds) };
   });
 }
 
 export interface SweepRow {
   values: number[];
+  levelDbSpl: number;
   outcome: JobOutcome;
 }
 
@@ -130,5 +146,5 @@ export async function runSweep(
 ): Promise<SweepRow[]> {
   const jobs: RenderJob[] = points.map((p) => ({ scenario: p.scenario, recording: p.recording, metrics }));
   const outcomes = await runAll(jobs, runner, onDone);
-  return points.map((p, i) => ({ values: p.values, outcome: outcomes[i] }));
+  return points.map((p, i) => ({ values: p.values, levelDbSpl: p.levelDbSpl, outcome: outcomes[i] }));
 }

@@ -81,6 +81,14 @@ export function withLevelFlag(scenario: Scenario, text: string | undefined): Sce
   return { ...scenario, source: { ...scenario.source, level: { kind: 'spl', dbSpl } } };
 }
 
+/** `--tone HZ`: replaces the source with a steady tone at the scenario's level (THD and SINAD need one). */
+export function withToneFlag(scenario: Scenario, text: string | undefined): Scenario {
+  if (text === undefined) return scenario;
+  const half = scenario.sampleRateHertz / 2;
+  const frequencyHertz = numberFlag(text, '--tone', 0, (v) => v >= 20 && v < half, `a tone frequency from 20 Hz to below ${half} Hz`);
+  return { ...scenario, source: { kind: 'tone', frequencyHertz, seconds: 1, level: scenario.source.level } };
+}
+
 /** Worker threads for `--workers N` (default: every core); 0 runs in this thread. Never more than the jobs. */
 export function createRunner(text: string | undefined, jobs: number): JobRunner {
   const asked = numberFlag(text, '--workers', defaultWorkerCount(), (v) => Number.isInteger(v) && v >= 0 && v <= 256, 'a whole number of workers from 0 to 256');

@@ -47,14 +47,16 @@ export function runCompareCommand(referenceFile: string, otherFile: string, flag
   };
   const files = writeResults(outDir, 'compare', report, [table], [referenceFile, otherFile]);
   const value = (v: number | null, unit: string) => (v === null ? '–' : `${formatNumber(v)}${unit}`);
-  const worst = [...result.bands].filter((b) => b.referenceDb > -100).sort((a, b) => Math.abs(b.matchedDifferenceDb) - Math.abs(a.matchedDifferenceDb))[0];
+  // Only bands within 40 dB of the reference's loudest count: near-empty bands hold noise, not a change of shape.
+  const loudest = Math.max(...result.bands.map((b) => b.referenceDb));
+  const worst = result.bands.filter((b) => b.referenceDb > loudest - 40).sort((a, b) => Math.abs(b.matchedDifferenceDb) - Math.abs(a.matchedDifferenceDb))[0];
   const lines = [
     `Comparing ${path.basename(otherFile)} with ${path.basename(referenceFile)} at ${result.rateHertz} Hz${result.otherResampledFromHertz ? ` (resampled from ${result.otherResampledFromHertz} Hz)` : ''}.`,
     `Delay ${(result.lagSeconds * 1000).toFixed(2)} ms; level ${result.levelDifferenceDb >= 0 ? '+' : ''}${result.levelDifferenceDb.toFixed(2)} dB (rms, ` +
       `${result.referenceRmsDb.toFixed(1)} → ${result.otherRmsDb.toFixed(1)} dBFS); matched with ${result.matchGainDb.toFixed(2)} dB${result.inverted ? ', polarity inverted' : ''}.`,
     `STOI ${value(result.stoi, '')}; segmental SNR ${value(result.segmentalSnrDb, ' dB')}; overall SNR ${result.snrDb.toFixed(1)} dB (after alignment).`,
   ];
-  if (worst) lines.push(`Largest third-octave change once level-matched: ${worst.matchedDifferenceDb.toFixed(2)} dB at ${formatNumber(worst.centreHertz)} Hz.`);
+  if (worst) lines.push(`Largest third-octave change once level-matched (bands within 40 dB of the loudest): ${worst.matchedDifferenceDb.toFixed(2)} dB at ${formatNumber(worst.centreHertz)} Hz.`);
   lines.push(toText({ ...table, rows: table.rows.filter((_, i) => i % 3 === 0) }).trimEnd().replace(/\n… .*$/, ''));
   lines.push('(every third band shown; all in bands.csv)');
   for (const note of result.notes) lines.push(`Note: ${note}`);

@@ -1,8 +1,9 @@
 import { checkMetricsApply, defaultMetrics, LINK_METRICS, parseMetricList, sourceSignal } from '../analysis/link-metrics.ts';
-import { parseSweepAxis, runSweep, sweepPoints, type SweepRow } from '../analysis/sweep-run.ts';
+import { LEVEL_AXIS, parseSweepAxis, runSweep, sweepPoints, type SweepRow } from '../analysis/sweep-run.ts';
 import { InputError } from '../errors.ts';
 import { settingsSummary } from '../scenario/index.ts';
-import { createRunner, defaultOutDir, excerptFlag, progressBar, readScenario, shellWord, withLevelFlag, writeResults } from './analysis-common.ts';
+import type { Scenario } from '../scenario/types.ts';
+import { createRunner, defaultOutDir, excerptFlag, progressBar, readScenario, shellWord, withLevelFlag, withToneFlag, writeResults } from './analysis-common.ts';
 import { toText, type Table } from './tables.ts';
 
 export interface SweepFlags {
@@ -11,6 +12,7 @@ export interface SweepFlags {
   metrics?: string;
   seconds?: string;
   spl?: string;
+  tone?: string;
   input?: string;
   workers?: string;
   out?: string;
@@ -22,12 +24,13 @@ export async function runSweepCommand(file: string, flags: SweepFlags, write: (t
   if (!flags.set || flags.set.length === 0) throw new InputError('--set', 'at least one PATH=FROM:TO:STEPS, e.g. --set source.level.dbSpl=60:100:9', 'none given');
   const axes = flags.set.map((text) => parseSweepAxis(text, flags.log === true));
   const input = readScenario(file, flags.input);
-  const nominal = withLevelFlag(input.scenario, flags.spl);
+  const adjust = (s: Scenario) => withToneFlag(withLevelFlag(s, flags.spl), flags.tone);
+  const nominal = adjust(input.scenario);
   const metrics = flags.metrics === undefined ? defaultMetrics(nominal) : parseMetricList(flags.metrics, '--metrics');
   checkMetricsApply(metrics, nominal, '--metrics');
   const seconds = excerptFlag(flags.seconds, sourceSignal(nominal) === 'speech' ? 1 : 0.3);
   const json = flags.input === undefined ? input.json : withRecordingJson(input.json, flags.input);
-  const points = sweepPoints(json, axes, input.resolve, file, input.recording, seconds, (s) => withLevelFlag(s, flags.spl));
+  const points = sweepPoints(json, axes, input.resolve, file, input.recording, seconds, adjust);
 
   const runner = createRunner(flags.workers, points.length);
   const bar = progressBar(flags.progress, 'sweep');
@@ -41,11 +44,20 @@ export async function runSweepCommand(file: string, flags: SweepFlags, write: (t
   }
   const wallSeconds = (Date.now() - startedMs) / 1000;
 
+  // The level each point ran at, unless it is the same everywhere or an axis shows it already.
+  const levelIsAxis = axes.some((_, i) => rows.every((r) => r.values[i] === r.levelDbSpl));
+  const levelColumn = !levelIsAxis && rows.some((r) => r.levelDbSpl !== rows[0].levelDbSpl);
   const table: Table = {
     name: 'sweep',
-    columns: [...axes.map((a) => ({ key: a.path })), ...metrics.map((m) => ({ key: m, unit: LINK_METRICS[m].unit })), { key: 'error' }],
+    columns: [
+      ...axes.map((a) => ({ key: a.path, unit: a.path === LEVEL_AXIS ? 'dB SPL' : undefined })),
+      ...(levelColumn ? [{ key: 'levelDbSpl', unit: 'dB SPL' }] : []),
+      ...metrics.map((m) => ({ key: m, unit: LINK_METRICS[m].unit })),
+      { key: 'error' },
+    ],
     rows: rows.map((row) => [
       ...row.values,
+      ...(levelColumn ? [row.levelDbSpl] : []),
       ...metrics.map((m) => (row.outcome.ok ? (row.outcome.result.metrics.values[m] ?? null) : null)),
       row.outcome.ok ? null : row.outcome.error,
     ]),
@@ -54,6 +66,7 @@ export async function runSweepCommand(file: string, flags: SweepFlags, write: (t
   const repeat = ['glowtalk', 'sweep', file, ...axes.flatMap((a) => ['--set', `${a.path}=${a.from}:${a.to}:${a.steps}:${a.log ? 'log' : 'lin'}`])];
   repeat.push('--metrics', metrics.join(','), '--seconds', seconds === null ? 'all' : String(seconds));
   if (flags.spl !== undefined) repeat.push('--spl', flags.spl);
+  if (flags.tone !== undefined) repeat.push('--tone', flags.tone);
   if (flags.input !== undefined) repeat.push('--input', flags.input);
   const outDir = flags.out ?? defaultOutDir(file, 'sweep');
   const report = {
@@ -66,6 +79,7 @@ export async function runSweepCommand(file: string, flags: SweepFlags, write: (t
       metrics: metrics.map((m) => ({ name: m, ...LINK_METRICS[m] })),
       excerptSeconds: seconds,
       levelOverrideDbSpl: flags.spl ?? null,
+      toneHertz: flags.tone ?? null,
       scenario: settingsSummary(nominal),
     },
     points: rows.length,

@@ -5,7 +5,7 @@ import { runTolerance, type ToleranceResult } from '../analysis/tolerance-run.ts
 import { InputError } from '../errors.ts';
 import { settingsSummary } from '../scenario/index.ts';
 import { readEngineering } from '../units/engineering.ts';
-import { createRunner, defaultOutDir, excerptFlag, numberFlag, progressBar, readScenario, shellWord, withLevelFlag, writeResults } from './analysis-common.ts';
+import { createRunner, defaultOutDir, excerptFlag, numberFlag, progressBar, readScenario, shellWord, withLevelFlag, withToneFlag, writeResults } from './analysis-common.ts';
 import { formatNumber, toText, type Table } from './tables.ts';
 
 export interface ToleranceFlags {
@@ -23,6 +23,7 @@ export interface ToleranceFlags {
   metrics?: string;
   seconds?: string;
   spl?: string;
+  tone?: string;
   input?: string;
   workers?: string;
   out?: string;
@@ -60,7 +61,7 @@ export async function runToleranceCommand(file: string, flags: ToleranceFlags, w
   if (runs === 0 && !flags.corners) throw new InputError('--runs', 'at least 1 run, or --corners', 'got 0 runs and no corners');
 
   const input = readScenario(file, flags.input);
-  const nominal = withLevelFlag(input.scenario, flags.spl);
+  const nominal = withToneFlag(withLevelFlag(input.scenario, flags.spl), flags.tone);
   const metrics = flags.metrics === undefined ? defaultMetrics(nominal) : parseMetricList(flags.metrics, '--metrics');
   checkMetricsApply(metrics, nominal, '--metrics');
   const seconds = excerptFlag(flags.seconds, sourceSignal(nominal) === 'speech' ? 1 : 0.3);
@@ -112,6 +113,7 @@ export async function runToleranceCommand(file: string, flags: ToleranceFlags, w
   if (spec.fixed.length > 0) repeat.push('--fixed', spec.fixed.join(','));
   repeat.push('--metrics', metrics.join(','), '--seconds', seconds === null ? 'all' : String(seconds));
   if (flags.spl !== undefined) repeat.push('--spl', flags.spl);
+  if (flags.tone !== undefined) repeat.push('--tone', flags.tone);
   if (flags.input !== undefined) repeat.push('--input', flags.input);
   const outDir = flags.out ?? defaultOutDir(file, 'tolerance');
   const report = {
@@ -128,11 +130,13 @@ export async function runToleranceCommand(file: string, flags: ToleranceFlags, w
       metrics: metrics.map((m) => ({ name: m, ...LINK_METRICS[m] })),
       excerptSeconds: seconds,
       levelOverrideDbSpl: flags.spl ?? null,
+      toneHertz: flags.tone ?? null,
       scenario: settingsSummary(nominal),
     },
     parameters: p,
     spreadOver: 'Monte Carlo runs only (nominal and corners excluded)',
     worst: result.worst,
+    sensitivities: result.sensitivities,
     failedRuns: result.failedRuns,
     workers: runner.size,
     wallSeconds,
@@ -155,10 +159,10 @@ export async function runToleranceCommand(file: string, flags: ToleranceFlags, w
     lines.push(`Nominal: ${metrics.map((m) => `${m} ${values[m] === null ? '–' : formatNumber(values[m] as number)}`).join(', ')}.`);
   }
   if (runs > 0) lines.push(`Spread over the Monte Carlo runs:\n${toText({ ...spreadTable, columns: spreadTable.columns.slice(0, 9), rows: spreadTable.rows.map((r) => r.slice(0, 9)) }).trimEnd()}`);
-  lines.push('Worst cases (parameters furthest from centre, ±1 = end of range):');
+  lines.push('Worst cases, with the parts that matter most (correlation r over the runs) where they were in their range (±1 = an end):');
   for (const w of result.worst) {
-    const furthest = w.furthest.map((f) => `${f.key} ${f.offset >= 0 ? '+' : ''}${f.offset.toFixed(2)}`).join(', ');
-    const why = w.label === 'low' || w.label === 'high' ? ` (every part at its ${w.label} end)` : furthest ? ` (${furthest})` : '';
+    const drivers = w.drivers.map((d) => `${d.key} at ${d.offset >= 0 ? '+' : ''}${d.offset.toFixed(2)}, r ${d.correlation.toFixed(2)}`).join('; ');
+    const why = w.label === 'low' || w.label === 'high' ? ` (every part at its ${w.label} end)` : drivers ? ` (${drivers})` : '';
     lines.push(`  ${w.extreme} ${w.metric} ${formatNumber(w.value)} in ${w.label}${why}`);
   }
   if (result.failedRuns > 0) lines.push(`${result.failedRuns} runs failed; the error column of runs.csv says why.`);

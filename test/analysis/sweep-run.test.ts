@@ -44,6 +44,21 @@ describe('sweep axes', () => {
     expect(grid).toEqual([[1, 10], [1, 20], [1, 30], [2, 10], [2, 20], [2, 30]]);
   });
 
+  it('takes "level" as the talker level in dB SPL, whatever form the file states it in', () => {
+    const json = linkJson({ kind: 'tone', frequency: 1000, seconds: 0.1, level: { effort: 'normal', distance: 0.3 } });
+    const points = sweepPoints(json, [parseSweepAxis('level=70:90:2', false)], NO_FILES, 'link.json', undefined, null);
+    expect(points.map((p) => p.scenario.source.level)).toEqual([
+      { kind: 'spl', dbSpl: 70 },
+      { kind: 'spl', dbSpl: 90 },
+    ]);
+    expect(points.map((p) => p.levelDbSpl)).toEqual([70, 90]);
+    // Without a level axis, each point reports the level the file gives: ANSI S3.5 normal effort 62.35 dB at 1 m, at 0.3 m.
+    const byDistance = sweepPoints(json, [parseSweepAxis('source.level.distance=0.3:0.6:2', false)], NO_FILES, 'link.json', undefined, null);
+    expect(byDistance[0].levelDbSpl).toBeCloseTo(62.35 - 20 * Math.log10(0.3), 9);
+    expect(byDistance[0].levelDbSpl - byDistance[1].levelDbSpl).toBeCloseTo(20 * Math.log10(2), 9);
+    expect(() => sweepPoints(json, [parseSweepAxis('level=100:200:2', false)], NO_FILES, 'link.json', undefined, null)).toThrow(/level: got 200/);
+  });
+
   it('checks every point before rendering: a value out of range names the path, the value and the point', () => {
     const axes = [parseSweepAxis('lightPath.channel.attenuation=-1:1:3', false)];
     expect(() => sweepPoints(linkJson(), axes, NO_FILES, 'link.json', undefined, null)).toThrow(/attenuation.*at sweep point lightPath.channel.attenuation=-1/);

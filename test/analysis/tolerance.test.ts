@@ -146,6 +146,24 @@ describe('runTolerance', () => {
     expect(one.spreads[0].spread!.count).toBe(4);
   });
 
+  it('ranks the parts by their correlation with a metric and names them at the worst run', () => {
+    // Pearson's r is ±1 for an exact linear relation and 0 for none (definition of the correlation coefficient).
+    const parameters = toleranceParameters(linkScenario(), SPEC);
+    const j = parameters.findIndex((p) => p.key === 'transmitter.RE2.value');
+    const rows = planRuns(parameters, SPEC, { runs: 50, seed: 3, corners: false }).map((run) => ({
+      run,
+      outcome: { ok: true as const, result: { metrics: { values: { minLedMilliamperes: 10 - 0.01 * run.values[j] }, notes: [] }, summary: {} as never } },
+    }));
+    const result = summariseTolerance(parameters, rows, ['minLedMilliamperes']);
+    const top = result.sensitivities[0].correlations[0];
+    expect(top.key).toBe('transmitter.RE2.value');
+    expect(top.correlation).toBeCloseTo(-1, 12);
+    const worst = result.worst[0];
+    expect(worst.extreme).toBe('lowest');
+    expect(worst.drivers[0]).toMatchObject({ key: 'transmitter.RE2.value' });
+    expect(worst.drivers[0].value).toBe(Math.max(...rows.map((r) => r.run.values[j])));
+  });
+
   it('skips a worst case for a metric every run agrees on', () => {
     const parameters = toleranceParameters(linkScenario(), SPEC);
     const rows = planRuns(parameters, SPEC, { runs: 3, seed: 1, corners: false }).map((run) => ({
