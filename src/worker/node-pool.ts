@@ -74,8 +74,15 @@ export class NodePool implements JobRunner {
     });
   }
 
+  /** Stops every worker; jobs still waiting or running fail rather than wait for ever. */
   async close(): Promise<void> {
     this.closed = true;
+    const stopped = new Error('the render pool was closed before this job finished');
+    for (const slot of this.slots) {
+      slot.busy?.reject(stopped);
+      slot.busy = null;
+    }
+    for (const pending of this.queue.splice(0)) pending.reject(stopped);
     await Promise.all(this.slots.map((slot) => slot.worker.terminate()));
   }
 
