@@ -46,9 +46,10 @@ export async function runResponseCommand(file: string, flags: ResponseFlags, wri
       { key: 'hertz', unit: 'Hz' },
       { key: 'magnitudeDb', unit: 'dB re 1 V/Pa' },
       { key: 'relativeDb', unit: `dB re ${response.referenceHertz} Hz` },
+      { key: 'reliable' },
       ...orders.map((n) => ({ key: `hd${n}Dbc`, unit: 'dBc' })),
     ],
-    rows: response.points.map((p) => [p.hertz, p.magnitudeDb, p.relativeDb, ...p.harmonicsDbc]),
+    rows: response.points.map((p) => [p.hertz, p.magnitudeDb, p.relativeDb, p.reliable, ...p.harmonicsDbc]),
   };
   const repeat = ['glowtalk', 'response', file, '--from', String(options.startHertz), '--to', String(options.endHertz), '--seconds', String(options.seconds)];
   repeat.push('--harmonics', String(options.harmonicCount), '--spl', String(response.levelDbSpl), '--points-per-octave', String(options.pointsPerOctave));
@@ -62,7 +63,10 @@ export async function runResponseCommand(file: string, flags: ResponseFlags, wri
     referenceDb: response.referenceDb,
     lowerCornerHertz: response.lowerCornerHertz,
     upperCornerHertz: response.upperCornerHertz,
-    windowSeconds: response.windowSeconds,
+    linearWindowSeconds: response.linearWindowSeconds,
+    harmonicWindowSeconds: response.harmonicWindowSeconds,
+    lowestReliableHertz: response.lowestReliableHertz,
+    lowestReliableHarmonicHertz: response.lowestReliableHarmonicHertz,
     ledCutoff: { count: result.report.led.cutoff.count, fraction: result.report.led.cutoff.fraction },
     wallSeconds,
   };
@@ -72,9 +76,13 @@ export async function runResponseCommand(file: string, flags: ResponseFlags, wri
   const ref = at(response.referenceHertz);
   const lines = [
     `Response of ${input.scenario.title ?? file}, microphone pressure to speaker volts: ${options.seconds} s sweep ${options.startHertz}–${options.endHertz} Hz at ${response.levelDbSpl.toFixed(1)} dB SPL.`,
-    `Gain at ${response.referenceHertz} Hz: ${response.referenceDb.toFixed(2)} dB re 1 V/Pa; −3 dB points: ${corner(response.lowerCornerHertz, 'below the band')} and ${corner(response.upperCornerHertz, 'above the band')}.`,
+    `Gain at ${response.referenceHertz} Hz: ${response.referenceDb.toFixed(2)} dB re 1 V/Pa; −3 dB points: ${corner(response.lowerCornerHertz, 'below the reliable band')} and ${corner(response.upperCornerHertz, 'above the band')}.`,
     `Harmonics at ${response.referenceHertz} Hz: ${orders.map((n, i) => `HD${n} ${ref.harmonicsDbc[i] === null ? '–' : `${formatNumber(ref.harmonicsDbc[i] as number)} dBc`}`).join(', ')}.`,
   ];
+  lines.push(
+    `Reliable from ${formatNumber(response.lowestReliableHertz)} Hz (harmonics from ${formatNumber(response.lowestReliableHarmonicHertz)} Hz); ` +
+      `a longer --seconds resolves lower frequencies.`,
+  );
   for (const hertz of [100, 300, 3000, 10000]) {
     if (hertz > options.startHertz && hertz < options.endHertz) lines.push(`  ${hertz} Hz: ${at(hertz).relativeDb.toFixed(2)} dB re ${response.referenceHertz} Hz`);
   }

@@ -41,7 +41,7 @@ describe('chainResponse', () => {
     const filtered = measure(linkWith(receiver(true))).response;
     const fc = 1 / (2 * Math.PI * 2.2e-9 * ((49200 * 100000) / 149200));
     for (const [i, point] of filtered.points.entries()) {
-      if (point.hertz < 200 || point.hertz > 8000) continue;
+      if (!point.reliable || point.hertz > 8000) continue;
       const expected = -10 * Math.log10(1 + (point.hertz / fc) ** 2);
       expect(Math.abs(point.magnitudeDb - flat.points[i].magnitudeDb - expected)).toBeLessThan(0.05);
     }
@@ -67,5 +67,22 @@ describe('chainResponse', () => {
     expect(response.referenceDb).toBeCloseTo(20 * Math.log10(far.fundamentalAmplitude / pascalsPeak), 1);
     const at1k = response.points.find((p) => Math.abs(p.hertz - 1000) < 1)!;
     expect(Math.abs(at1k.harmonicsDbc[0]! - far.harmonics[0].dbc)).toBeLessThan(1);
+  });
+
+  it('is within 0.1 dB (HD2 within 1 dB) of a steady tone at the lowest frequency it calls reliable, and says nothing of harmonics below it', () => {
+    const scenario = linkWith(null);
+    const { response } = measure(scenario);
+    const lowest = response.points.find((p) => p.reliable)!;
+    expect(lowest.hertz).toBeGreaterThanOrEqual(response.lowestReliableHertz);
+    const tone = { ...scenario, source: { kind: 'tone' as const, frequencyHertz: lowest.hertz, seconds: 0.3, level: { kind: 'spl' as const, dbSpl: 60 } } };
+    const result = renderScenario(tone);
+    const w = steadyWindow(result.farEndVolts.length, 48000);
+    const far = thd(result.farEndVolts.subarray(w.start, w.end), 48000, { fundamentalHertz: lowest.hertz, harmonicCount: 2 });
+    const pascalsPeak = 20e-6 * 10 ** (60 / 20) * Math.SQRT2;
+    expect(Math.abs(lowest.magnitudeDb - 20 * Math.log10(far.fundamentalAmplitude / pascalsPeak))).toBeLessThan(0.1);
+    const withHarmonics = response.points.find((p) => p.harmonicsDbc[0] !== null)!;
+    expect(withHarmonics.hertz).toBeGreaterThanOrEqual(response.lowestReliableHarmonicHertz);
+    expect(response.points.filter((p) => p.hertz < response.lowestReliableHarmonicHertz).every((p) => p.harmonicsDbc[0] === null)).toBe(true);
+    if (withHarmonics === lowest) expect(Math.abs(lowest.harmonicsDbc[0]! - far.harmonics[0].dbc)).toBeLessThan(1);
   });
 });

@@ -99,7 +99,7 @@ describe('glowtalk headroom, response and compare', () => {
     expect(run.code).toBe(0);
     expect(run.out).toMatch(/Gain at 1000 Hz: -?\d+\.\d\d dB re 1 V\/Pa/);
     const rows = csvRows(join(dir, 'r', 'response.csv'));
-    expect(rows[0]).toBe('hertz,magnitudeDb,relativeDb,hd2Dbc,hd3Dbc');
+    expect(rows[0]).toBe('hertz,magnitudeDb,relativeDb,reliable,hd2Dbc,hd3Dbc');
     expect(rows.some((r) => r.startsWith('1000,'))).toBe(true);
   });
 
