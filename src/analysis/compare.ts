@@ -4,7 +4,8 @@
  * aligned in time and matched in level by least squares (align.ts), then
  *   - STOI (stoi.ts, Taal et al. 2011) and segmental SNR (segmental-snr.ts)
  *     of the aligned other against the reference,
- *   - overall SNR: reference power over the residual after alignment,
+ *   - SNR by coherence (coherent-snr.ts): the part of the other linearly
+ *     related to the reference over the rest, blind to equalisation,
  *   - rms levels of both as given and their difference,
  *   - one-third-octave band levels (third-octave.ts) of both as given, and
  *     of the aligned, level-matched other: the spectral difference once the
@@ -13,7 +14,8 @@
 import { resample } from '../audio/resample.ts';
 import { InputError } from '../errors.ts';
 import { align } from './align.ts';
-import { amplitudeDb, powerDb } from './decibels.ts';
+import { coherentSnr } from './coherent-snr.ts';
+import { amplitudeDb } from './decibels.ts';
 import { levels } from './levels.ts';
 import { segmentalSnr } from './segmental-snr.ts';
 import { stoi } from './stoi.ts';
@@ -55,7 +57,8 @@ export interface Comparison {
   levelDifferenceDb: number;
   stoi: number | null;
   segmentalSnrDb: number | null;
-  snrDb: number;
+  /** Power of the other coherent with the reference over the rest (coherent-snr.ts). */
+  snrDb: number | null;
   bands: BandComparison[];
   notes: string[];
 }
@@ -85,12 +88,6 @@ export function compareRecordings(
       return null;
     }
   };
-  let signal = 0;
-  let residual = 0;
-  for (let i = 0; i < x.length; i++) {
-    signal += x[i] * x[i];
-    residual += (x[i] - aligned[i]) ** 2;
-  }
   const bands = thirdOctaveBands(options.lowestBandHertz, options.highestBandHertz, rate / 2);
   const referenceBands = thirdOctaveLevelsDb(x, rate, bands);
   const otherBands = thirdOctaveLevelsDb(y, rate, bands);
@@ -108,7 +105,7 @@ export function compareRecordings(
     levelDifferenceDb: otherLevels.rmsDb - referenceLevels.rmsDb,
     stoi: measured('STOI', () => stoi(x, aligned, rate)),
     segmentalSnrDb: measured('segmental SNR', () => segmentalSnr(x, aligned, rate, { activeOnly: true }).segmentalSnrDb),
-    snrDb: Math.min(300, powerDb(signal / residual)),
+    snrDb: measured('SNR', () => coherentSnr(x, aligned, rate, { highHertz: Math.min(20000, rate / 2) }).snrDb),
     bands: bands.map((band, i) => ({
       centreHertz: band.centreHertz,
       referenceDb: referenceBands[i],

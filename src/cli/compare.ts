@@ -54,7 +54,7 @@ export function runCompareCommand(referenceFile: string, otherFile: string, flag
     `Comparing ${path.basename(otherFile)} with ${path.basename(referenceFile)} at ${result.rateHertz} Hz${result.otherResampledFromHertz ? ` (resampled from ${result.otherResampledFromHertz} Hz)` : ''}.`,
     `Delay ${(result.lagSeconds * 1000).toFixed(2)} ms; level ${result.levelDifferenceDb >= 0 ? '+' : ''}${result.levelDifferenceDb.toFixed(2)} dB (rms, ` +
       `${result.referenceRmsDb.toFixed(1)} → ${result.otherRmsDb.toFixed(1)} dBFS); matched with ${result.matchGainDb.toFixed(2)} dB${result.inverted ? ', polarity inverted' : ''}.`,
-    `STOI ${value(result.stoi, '')}; segmental SNR ${value(result.segmentalSnrDb, ' dB')}; overall SNR ${result.snrDb.toFixed(1)} dB (after alignment).`,
+    `STOI ${value(result.stoi, '')}; segmental SNR ${value(result.segmentalSnrDb, ' dB')}; SNR by coherence ${value(result.snrDb, ' dB')}.`,
   ];
   if (worst) lines.push(`Largest third-octave change once level-matched (bands within 40 dB of the loudest): ${worst.matchedDifferenceDb.toFixed(2)} dB at ${formatNumber(worst.centreHertz)} Hz.`);
   lines.push(toText({ ...table, rows: table.rows.filter((_, i) => i % 3 === 0) }).trimEnd().replace(/\n… .*$/, ''));

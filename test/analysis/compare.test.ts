@@ -77,6 +77,7 @@ describe('compareRecordings', () => {
     // STOI of a signal with itself is 1 (Taal et al. 2011: a correlation of identical envelopes); segmental SNR takes its 35 dB ceiling.
     expect(result.stoi).toBeCloseTo(1, 9);
     expect(result.segmentalSnrDb).toBe(35);
+    expect(result.snrDb!).toBeGreaterThan(100); // nothing but the reference itself, up to rounding
     for (const band of result.bands) if (band.referenceDb > -120) expect(Math.abs(band.matchedDifferenceDb)).toBeLessThan(0.01);
   });
 
