@@ -3,6 +3,7 @@
  * fail, by criterion:
  *   - the LED first cuts off (a 1 kHz tone; any cut-off episode at all),
  *   - THD_F of the far end reaches 1 %, 3 %, 10 % (the same tone),
+ *   - the LED first cuts off with speech (at its active speech level),
  *   - STOI of the far end against the clean speech drops below a threshold.
  * Each is a bracket-and-bisect search on the level in dB SPL (level-crossing.ts)
  * over short renders. Renders are cached by signal and level, so a level tried
@@ -26,7 +27,9 @@ export interface HeadroomOptions {
   toneSeconds: number;
   /** THD levels to find, percent; default 1, 3, 10. */
   thdPercents: number[];
-  /** STOI below which speech counts as failing; null to skip the speech search. */
+  /** Run the speech searches (cut-off with speech, STOI). */
+  speech: boolean;
+  /** STOI below which speech counts as failing; null to skip the STOI search. */
   stoiThreshold: number | null;
   /** Length of each speech render (STOI needs about 0.4 s of active speech); default 1 s. */
   speechSeconds: number;
@@ -41,6 +44,7 @@ export const HEADROOM_DEFAULTS: HeadroomOptions = {
   toneHertz: 1000,
   toneSeconds: 0.3,
   thdPercents: [1, 3, 10],
+  speech: true,
   // Our choice for "clearly degraded" on STOI's 0–1 scale (common practice, no source).
   stoiThreshold: 0.8,
   speechSeconds: 1,
@@ -137,7 +141,8 @@ export async function findHeadroom(
       return { scenario: { ...scenario, source }, metrics: TONE_METRICS };
     }
     const excerpt = excerptOf({ ...speech.scenario, source: { ...speech.scenario.source, level } }, speech.recording, options.speechSeconds);
-    return { scenario: excerpt.scenario, recording: excerpt.recording, metrics: SPEECH_METRICS };
+    const metrics = options.stoiThreshold === null ? SPEECH_METRICS.filter((m) => m !== 'stoi') : SPEECH_METRICS;
+    return { scenario: excerpt.scenario, recording: excerpt.recording, metrics };
   }
 
   const clamp = (db: number) => Math.min(options.maxDbSpl, Math.max(options.minDbSpl, db));
@@ -181,15 +186,17 @@ export async function findHeadroom(
         return value >= percent;
       }),
     ),
-    ...(options.stoiThreshold === null
-      ? []
-      : [
+    // Speech peaks stand well above its level, so speech cuts off below the tone's level: start lower.
+    ...(options.speech ? [criterion('cutoffSpeech', 'LED cut-off, speech', 'speech', anchor - 10, 2, (p) => (p.values.cutoffCount ?? 0) > 0)] : []),
+    ...(options.speech && options.stoiThreshold !== null
+      ? [
           criterion('stoi', `STOI below ${options.stoiThreshold}`, 'speech', anchor, 3, (p) => {
             const value = p.values.stoi;
             if (value === null) throw new InputError(`STOI at ${p.levelDbSpl.toFixed(2)} dB SPL`, 'speech that STOI can measure', p.notes.join('; '));
             return value < (options.stoiThreshold as number);
           }),
-        ]),
+        ]
+      : []),
   ]);
   probes.sort((a, b) => (a.signal === b.signal ? a.levelDbSpl - b.levelDbSpl : a.signal < b.signal ? 1 : -1));
   return { startDbSpl, cutoffEstimateDbSpl, speechSource: speech.description, criteria: [cutoff, ...rest], probes };

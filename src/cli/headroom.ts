@@ -29,8 +29,8 @@ export async function runHeadroom(file: string, flags: HeadroomFlags, write: (te
     toneHertz: numberFlag(flags.tone, '--tone', d.toneHertz, (v) => v >= 20 && v < input.scenario.sampleRateHertz / 2, 'a tone frequency from 20 Hz to below half the sample rate'),
     toneSeconds: numberFlag(flags.toneSeconds, '--tone-seconds', d.toneSeconds, (v) => v >= 0.05 && v <= 10, 'a tone length from 0.05 to 10 s'),
     thdPercents: flags.thd === undefined ? d.thdPercents : numberListFlag(flags.thd, '--thd', (v) => v > 0 && v < 1000, 'THD levels in percent, e.g. 1,3,10'),
-    stoiThreshold:
-      flags.speech === false ? null : numberFlag(flags.stoiBelow, '--stoi-below', d.stoiThreshold ?? 0.8, (v) => v > 0 && v < 1, 'a STOI value between 0 and 1'),
+    speech: flags.speech !== false,
+    stoiThreshold: numberFlag(flags.stoiBelow, '--stoi-below', d.stoiThreshold ?? 0.8, (v) => v > 0 && v < 1, 'a STOI value between 0 and 1'),
     speechSeconds: numberFlag(flags.speechSeconds, '--speech-seconds', d.speechSeconds, (v) => v >= 0.5 && v <= 60, 'a speech length from 0.5 to 60 s'),
     startDbSpl: flags.from === undefined ? null : numberFlag(flags.from, '--from', 0, (v) => v >= d.minDbSpl && v <= d.maxDbSpl, `a level from ${d.minDbSpl} to ${d.maxDbSpl} dB SPL`),
   };
@@ -40,7 +40,7 @@ export async function runHeadroom(file: string, flags: HeadroomFlags, write: (te
   let result: HeadroomResult;
   try {
     // The number of renders is not known ahead: about 4 per criterion plus the bracketing.
-    const expected = 5 * (1 + options.thdPercents.length + (options.stoiThreshold === null ? 0 : 1));
+    const expected = 5 * (1 + options.thdPercents.length + (options.speech ? 2 : 0));
     result = await findHeadroom(input.scenario, input.recording, runner, options, (_probe, done) => bar.update(done, Math.max(expected, done + 1)));
   } finally {
     bar.stop();
@@ -86,7 +86,7 @@ export async function runHeadroom(file: string, flags: HeadroomFlags, write: (te
 
   const scenarioDbSpl = targetLevelDbSpl(input.scenario.source.level);
   const repeat = ['glowtalk', 'headroom', file, '--tolerance', String(options.toleranceDb), '--tone', String(options.toneHertz), '--tone-seconds', String(options.toneSeconds), '--thd', options.thdPercents.join(',')];
-  if (options.stoiThreshold === null) repeat.push('--no-speech');
+  if (!options.speech) repeat.push('--no-speech');
   else repeat.push('--stoi-below', String(options.stoiThreshold), '--speech-seconds', String(options.speechSeconds));
   if (options.startDbSpl !== null) repeat.push('--from', String(options.startDbSpl));
   if (flags.input) repeat.push('--input', flags.input);
@@ -106,22 +106,31 @@ export async function runHeadroom(file: string, flags: HeadroomFlags, write: (te
   const files = writeResults(outDir, 'headroom', report, [levelsTable, probesTable], input.inputs);
 
   const lines: string[] = [];
-  lines.push(`Headroom of ${input.scenario.title ?? file}: ${options.toneHertz} Hz tone (${options.toneSeconds} s renders)${options.stoiThreshold === null ? '' : `; STOI on ${result.speechSource}`}.`);
+  lines.push(`Headroom of ${input.scenario.title ?? file}: ${options.toneHertz} Hz tone (${options.toneSeconds} s renders)${options.speech ? `; speech: ${result.speechSource}` : ''}.`);
   lines.push(`Levels at the microphone, each within ±${options.toleranceDb} dB:`);
   for (const c of result.criteria) {
     const x = c.crossing;
-    const name = c.label.padEnd(18);
+    const name = c.label.padEnd(20);
     if (!x.found) {
       lines.push(`  ${name} ${notFound(x)}`);
       continue;
     }
-    const talker = c.talkerMetres ? ` = a normal talker at ${distance(c.talkerMetres.normal)}, a shout at ${distance(c.talkerMetres.shout)}` : '';
+    const talker = !c.talkerMetres
+      ? ''
+      : c.signal === 'speech'
+        ? ` = a normal talker at ${distance(c.talkerMetres.normal)}, a shout at ${distance(c.talkerMetres.shout)}`
+        : ` (rms of a normal talker at ${distance(c.talkerMetres.normal)}, a shout at ${distance(c.talkerMetres.shout)})`;
     lines.push(`  ${name} ${x.levelDb.toFixed(2)} dB SPL${talker}`);
   }
   const cutoff = result.criteria[0].crossing;
   if (cutoff.found) {
     const margin = cutoff.levelDb - scenarioDbSpl;
-    lines.push(`The scenario's own level, ${scenarioDbSpl.toFixed(1)} dB SPL, is ${Math.abs(margin).toFixed(1)} dB ${margin >= 0 ? 'below' : 'above'} the LED cut-off of a steady tone (speech peaks rise well above their average level).`);
+    lines.push(`The scenario's own level, ${scenarioDbSpl.toFixed(1)} dB SPL, is ${Math.abs(margin).toFixed(1)} dB ${margin >= 0 ? 'below' : 'above'} the LED cut-off of a steady tone.`);
+  }
+  const speechCutoff = result.criteria.find((c) => c.key === 'cutoffSpeech')?.crossing;
+  if (speechCutoff?.found) {
+    const margin = speechCutoff.levelDb - scenarioDbSpl;
+    lines.push(`With speech the LED cuts off ${Math.abs(margin).toFixed(1)} dB ${margin >= 0 ? 'above' : 'below'} the scenario's level: that is its headroom for talk.`);
   }
   lines.push(`${result.probes.length} renders in ${wallSeconds.toFixed(1)} s on ${runner.size} worker${runner.size === 1 ? '' : 's'}.`);
   lines.push(`Files: ${files.join(', ')}`);

@@ -22,7 +22,7 @@ describe('findHeadroom', () => {
       toleranceDb: tolerance,
       toneSeconds: TONE_SECONDS,
       thdPercents: [3],
-      stoiThreshold: null,
+      speech: false,
     });
     const [cutoff, thd3] = result.criteria;
     if (!cutoff.crossing.found || !thd3.crossing.found) throw new Error('a level was not found');
@@ -45,6 +45,26 @@ describe('findHeadroom', () => {
     expect(thd3.crossing.levelDb).toBeLessThan(cutoff.crossing.levelDb);
     const keys = result.probes.map((p) => `${p.signal}@${p.levelDbSpl}`);
     expect(new Set(keys).size).toBe(keys.length);
+  });
+
+  it('finds where speech first cuts the LED off within ±tolerance, below the tone\'s cut-off level (speech peaks stand above its level)', async () => {
+    const scenario = linkScenario();
+    const tolerance = 0.25;
+    const result = await findHeadroom(scenario, undefined, inProcessRunner(), {
+      ...HEADROOM_DEFAULTS,
+      toneSeconds: TONE_SECONDS,
+      thdPercents: [],
+      stoiThreshold: null,
+      speechSeconds: 0.3,
+    });
+    const [tone, speech] = result.criteria;
+    expect(speech.key).toBe('cutoffSpeech');
+    if (!tone.crossing.found || !speech.crossing.found) throw new Error('a level was not found');
+    // The speech the search used: glowtalk's speech-like signal, seed 1, at its active speech level (ITU-T P.56).
+    const speechAt = (dbSpl: number): Scenario => ({ ...scenario, source: { kind: 'speech-like', seconds: 0.3, seed: 1, level: { kind: 'spl', dbSpl } } });
+    expect(renderScenario(speechAt(speech.crossing.levelDb - tolerance)).report.led.cutoff.count).toBe(0);
+    expect(renderScenario(speechAt(speech.crossing.levelDb + tolerance)).report.led.cutoff.count).toBeGreaterThan(0);
+    expect(speech.crossing.levelDb).toBeLessThan(tone.crossing.levelDb);
   });
 
   it('turns a level into talker distances by the ANSI S3.5-1997 speech levels at 1 m and the inverse-distance law', () => {
