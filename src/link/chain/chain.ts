@@ -1,20 +1,16 @@
-import { Bjt, REGION_CUTOFF, REGION_SATURATION } from '../../devices/bjt.ts';
-import { Diode } from '../../devices/diode.ts';
-import { VoltageSource } from '../../devices/sources.ts';
 import { InputError } from '../../errors.ts';
-import type { PhototransistorModel } from '../../circuit/types.ts';
 import type { Scenario } from '../../scenario/types.ts';
 import type { NewtonTolerances } from '../../solver/newton.ts';
-import { Simulator } from '../../solver/simulator.ts';
 import type { LinearAlgebra } from '../../solver/system.ts';
 import { LightPath } from '../light-path/light-path.ts';
 import { Microphone } from '../microphone.ts';
 import { Decimator, Upsampler } from '../oversampler.ts';
 import { IntervalTracker } from './intervals.ts';
-import { buildReport, type RenderReport, type TransistorWatch } from './report.ts';
-import { withLightInputAndSpeaker, withMicrophoneResistance } from './rewire.ts';
+import { buildLinkCircuits } from './link-circuits.ts';
+import { buildReport, type RenderReport } from './report.ts';
 import { calibratedSource, type Recording } from './source.ts';
 import { TapCapture, resolveTap, type TapRecord } from './taps.ts';
+import { updateWatches, watchTransistors } from './transistor-watch.ts';
 
 export interface RenderOptions {
   /** The decoded recording when the source is a recording. */
@@ -71,27 +67,9 @@ export function renderScenario(scenario: Scenario, options: RenderOptions = {}):
   const substeps = Math.max(1, Math.round(options.solver?.substeps ?? 1));
   const hSub = h / substeps;
 
-  const tx = new Simulator(
-    withMicrophoneResistance(scenario.transmitter.circuit, scenario.transmitter.inputSource, scenario.microphone.outputResistanceOhms),
-    solverOptions,
-  );
-  const rx = new Simulator(
-    withLightInputAndSpeaker(scenario.receiver.circuit, scenario.receiver.detector, scenario.receiver.output, scenario.receiver.speakerOhms),
-    solverOptions,
-  );
-  const input = tx.system.devicesByRef.get(scenario.transmitter.inputSource);
-  if (!(input instanceof VoltageSource) || !input.drive.isUpstream) {
-    throw new InputError('transmitter.input', 'the ref of a voltage source whose wave is {"shape": "upstream"}');
-  }
-  const micDrive = input.drive;
-  const led = tx.system.devicesByRef.get(scenario.transmitter.led);
-  const detector = rx.system.devicesByRef.get(scenario.receiver.detector);
-  if (!(led instanceof Diode) || !led.isLed) throw new InputError('transmitter.led', 'the ref of an LED in the transmitter circuit');
-  if (!(detector instanceof Bjt) || !detector.light) throw new InputError('receiver.detector', 'the ref of a phototransistor in the receiver circuit');
-  const detectorPart = scenario.receiver.circuit.parts.find((p) => p.ref === scenario.receiver.detector);
-  const responsivity = (detectorPart as { model: PhototransistorModel }).model.responsivity;
-  const outPlus = rx.system.nodeIndex(scenario.receiver.output[0]) ?? -1;
-  const outMinus = rx.system.nodeIndex(scenario.receiver.output[1]) ?? -1;
+  const circuits = buildLinkCircuits(scenario, solverOptions);
+  const { transmitter: tx, receiver: rx, microphoneDrive: micDrive, led, lightDrive, responsivity } = circuits;
+  const { speakerPlus: outPlus, speakerMinus: outMinus } = circuits;
 
   const lp = scenario.lightPath;
   const lightPath = new LightPath({
@@ -112,7 +90,7 @@ export function renderScenario(scenario: Scenario, options: RenderOptions = {}):
   tx.operatingPoint();
   const restingEmitterWatts = led.opticalWatts(tx.x);
   const restingDetectorWatts = lightPath.gain * restingEmitterWatts + (lp.ambient?.meanPowerWatts ?? 0);
-  detector.light.upstreamValue = restingDetectorWatts + lp.darkCurrentAmperes / responsivity;
+  lightDrive.upstreamValue = restingDetectorWatts + lp.darkCurrentAmperes / responsivity;
   rx.operatingPoint();
   const restingLedAmperes = led.junctionCurrent(tx.x);
 
@@ -130,26 +108,9 @@ export function renderScenario(scenario: Scenario, options: RenderOptions = {}):
   let ledMax = -Infinity;
   let ledSum = 0;
   let ledCount = 0;
-  const watches: TransistorWatch[] = [];
-  for (const [circuit, simulator] of [
-    ['transmitter', tx],
-    ['receiver', rx],
-  ] as const) {
-    for (const device of simulator.system.devices) {
-      if (device instanceof Bjt) {
-        watches.push({
-          circuit,
-          ref: device.ref,
-          device,
-          simulator,
-          saturation: new IntervalTracker(h, offsetSeconds),
-          cutoff: new IntervalTracker(h, offsetSeconds),
-        });
-      }
-    }
-  }
-  const txWatches = watches.filter((w) => w.circuit === 'transmitter');
-  const rxWatches = watches.filter((w) => w.circuit === 'receiver');
+  const txWatches = watchTransistors('transmitter', tx, h, offsetSeconds);
+  const rxWatches = watchTransistors('receiver', rx, h, offsetSeconds);
+  const watches = [...txWatches, ...rxWatches];
 
   // Taps.
   const tapNames = [...new Set([...scenario.taps, ...(options.taps ?? [])])];
@@ -193,7 +154,7 @@ export function renderScenario(scenario: Scenario, options: RenderOptions = {}):
   let transmitterMs = 0;
   let receiverMs = 0;
   let previousMicVolts = 0;
-  let previousLightWatts = detector.light.upstreamValue;
+  let previousLightWatts = lightDrive.upstreamValue;
   let farWritten = -latency; // the first `latency` decimated samples are filter fill
   let step = 0;
 
@@ -228,11 +189,7 @@ export function renderScenario(scenario: Scenario, options: RenderOptions = {}):
         ledSum += amperes;
         ledCount++;
       }
-      for (const w of txWatches) {
-        const region = w.device.regionCode(x);
-        w.saturation.update(index, region === REGION_SATURATION);
-        w.cutoff.update(index, region === REGION_CUTOFF);
-      }
+      updateWatches(txWatches, index, x);
       for (const tap of txTaps) tap.push((tap.source as { probe: (x: Float64Array) => number }).probe(x));
     }
 
@@ -250,17 +207,13 @@ export function renderScenario(scenario: Scenario, options: RenderOptions = {}):
       const index = rxStart + i;
       const watts = photoAmperes[i] / responsivity;
       for (let k = substeps - 1; k >= 0; k--) {
-        detector.light.upstreamValue = watts - (k / substeps) * (watts - previousLightWatts);
+        lightDrive.upstreamValue = watts - (k / substeps) * (watts - previousLightWatts);
         rx.step(hSub, ((index + 1) * substeps - k) * hSub);
       }
       previousLightWatts = watts;
       const x = rx.x;
       speaker[i] = (outPlus < 0 ? 0 : x[outPlus]) - (outMinus < 0 ? 0 : x[outMinus]);
-      for (const w of rxWatches) {
-        const region = w.device.regionCode(x);
-        w.saturation.update(index, region === REGION_SATURATION);
-        w.cutoff.update(index, region === REGION_CUTOFF);
-      }
+      updateWatches(rxWatches, index, x);
       for (const tap of rxTaps) tap.push((tap.source as { probe: (x: Float64Array) => number }).probe(x));
     }
 

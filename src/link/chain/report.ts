@@ -1,18 +1,9 @@
-import type { Bjt } from '../../devices/bjt.ts';
 import type { Scenario } from '../../scenario/types.ts';
-import type { Simulator } from '../../solver/simulator.ts';
 import { pascalsToDbSpl } from '../acoustics/sound-level.ts';
 import type { IntervalTracker, TimeInterval } from './intervals.ts';
 import type { CalibratedSource } from './source.ts';
+import type { TransistorWatch } from './transistor-watch.ts';
 
-export interface TransistorWatch {
-  circuit: 'transmitter' | 'receiver';
-  ref: string;
-  device: Bjt;
-  simulator: Simulator;
-  saturation: IntervalTracker;
-  cutoff: IntervalTracker;
-}
 
 interface Episodes {
   fraction: number;
