@@ -1,6 +1,6 @@
 import { LitElement, css, html, nothing } from 'lit';
 import { customElement, property, state } from 'lit/decorators.js';
-import type { RenderedLink } from '../src/worker/messages.ts';
+import type { RecordingData, RenderedLink } from '../src/worker/messages.ts';
 import type { RenderState } from './gt-render-bar.ts';
 import { shadingOf, tracesOf } from './support/run-views.ts';
 import type { JsonObject } from './support/scenario-doc.ts';
@@ -25,7 +25,8 @@ const VIEWS: [ViewId, string][] = [
 
 /**
  * The views of a render in tabs: traces, spectrum, transfer, report, the
- * comparison with kept snapshots, and the place for margins. Events of the
+ * comparison with kept snapshots, and the margins (kept alive while hidden, so
+ * a running analysis and its results survive a change of tab). Events of the
  * views (range-select, snapshot-keep/compare/delete) bubble through.
  */
 @customElement('gt-view-panel')
@@ -36,6 +37,7 @@ export class GtViewPanel extends LitElement {
     nav button { font: inherit; font-size: 0.82rem; background: none; color: var(--gt-muted, #9aa3ad); border: none; border-bottom: 2px solid transparent; padding: 0.25rem 0.7rem; cursor: pointer; }
     nav button[aria-selected='true'] { color: var(--gt-text, #e2e6ea); border-bottom-color: var(--gt-accent, #ffb547); }
     .stale-note { margin-left: auto; font-size: 0.75rem; color: var(--gt-accent, #ffb547); padding-bottom: 0.3rem; }
+    gt-margins-panel[hidden] { display: none; }
     .empty { color: var(--gt-muted, #9aa3ad); font-size: 0.85rem; }
   `;
 
@@ -47,6 +49,10 @@ export class GtViewPanel extends LitElement {
   @property({ attribute: false }) playheadSeconds: number | null = null;
   @property({ attribute: false }) snapshots: SnapshotMeta[] = [];
   @property({ attribute: false }) compared: Snapshot | null = null;
+  /** The document being edited, its label and the recording it names, for the Margins tab. */
+  @property({ attribute: false }) docJson: JsonObject | null = null;
+  @property() docLabel = 'scenario';
+  @property({ attribute: false }) recording: RecordingData | null = null;
 
   @state() private view: ViewId = 'traces';
 
@@ -55,12 +61,12 @@ export class GtViewPanel extends LitElement {
         ${VIEWS.map(([id, label]) => html`<button role="tab" data-view=${id} aria-selected=${this.view === id ? 'true' : 'false'} @click=${() => (this.view = id)}>${label}</button>`)}
         ${this.stale ? html`<span class="stale-note">showing the render of earlier settings</span>` : nothing}
       </nav>
-      <div class="view">${this.renderView()}</div>`;
+      <div class="view">${this.view === 'margins' ? nothing : this.renderView()}</div>
+      <gt-margins-panel ?hidden=${this.view !== 'margins'} .json=${this.docJson} .label=${this.docLabel} .recording=${this.recording}></gt-margins-panel>`;
   }
 
   private renderView() {
     const { run, runJson } = this;
-    if (this.view === 'margins') return html`<gt-margins-panel></gt-margins-panel>`;
     if (this.view === 'compare') {
       return html`<gt-compare-panel
         .snapshots=${this.snapshots}

@@ -2,6 +2,7 @@ import { LitElement, html, nothing } from 'lit';
 import { customElement, state } from 'lit/decorators.js';
 import { isUserFacing } from '../src/errors.ts';
 import type { Scenario } from '../src/scenario/index.ts';
+import type { RecordingData } from '../src/worker/messages.ts';
 import { applyEdit } from './support/apply-edit.ts';
 import { DEMOS, bundledRecordingUrl, fetchBundledRecording } from './support/demos.ts';
 import type { BlockId } from './support/field-catalogue.ts';
@@ -303,6 +304,9 @@ export class GtWorkbench extends LitElement {
             .playheadSeconds=${this.playhead}
             .snapshots=${this.snapshots.list}
             .compared=${this.snapshots.compared}
+            .docJson=${doc?.json ?? null}
+            .docLabel=${doc?.label ?? 'scenario'}
+            .recording=${this.marginRecording()}
             @range-select=${(e: CustomEvent<TimeRange | null>) => (this.selection = e.detail)}
             @snapshot-keep=${(e: CustomEvent<{ name: string }>) => void this.keepSnapshot(e.detail.name)}
             @snapshot-compare=${(e: CustomEvent<{ id: string | null }>) => void this.snapshots.compareWith(e.detail.id)}
@@ -320,6 +324,15 @@ export class GtWorkbench extends LitElement {
       </footer>
     `;
   }
+
+  /** The recording for the Margins tab (the same object while the recording is, so Lit sees no change). */
+  private marginRecording(): RecordingData | null {
+    const r = this.recording;
+    if (!r) return null;
+    if (this.marginRecordingCache?.from !== r) this.marginRecordingCache = { from: r, data: { samples: r.samples, sampleRateHertz: r.sampleRateHertz, label: r.name } };
+    return this.marginRecordingCache.data;
+  }
+  private marginRecordingCache: { from: store.StoredRecording; data: RecordingData } | null = null;
 
   private renderSettings() {
     const doc = this.doc;

@@ -12,6 +12,7 @@ import type { TapRecord } from '../link/chain/taps.ts';
 import type { RenderReport } from '../link/chain/report.ts';
 import type { BiasReport } from '../solver/bias-report.ts';
 import type { JsonValue } from '../scenario/summary.ts';
+import type { ErrorData, RenderJob, RenderJobResult } from './jobs.ts';
 
 /** A decoded recording handed to the worker (mono, its own rate). */
 export interface RecordingData {
@@ -107,6 +108,18 @@ export interface FailedMessage {
 }
 
 export type WorkerReply = BiasMessage | ProgressMessage | DoneMessage | FailedMessage;
+
+/**
+ * Page → worker: one analysis job (jobs.ts) of a headroom search, sweep or
+ * tolerance run, the same job the command line's worker threads run. The
+ * worker answers with exactly one JobReply of the same id.
+ */
+export interface JobRequest {
+  kind: 'job';
+  id: number;
+  job: RenderJob;
+}
+export type JobReply = { kind: 'job-done'; id: number; result: RenderJobResult } | { kind: 'job-failed'; id: number; error: ErrorData };
 
 /** The buffers of a result, to transfer rather than copy. */
 export function transferables(result: RenderedLink): ArrayBuffer[] {

@@ -1,12 +1,14 @@
 /// <reference lib="webworker" />
 /**
- * The render worker: one RenderRequest at a time, replies as in messages.ts.
+ * The render worker: one RenderRequest at a time, replies as in messages.ts;
+ * it also runs analysis jobs (JobRequest, for the Margins tab) one at a time.
  * Started by the page with
  *   new Worker(new URL('../../src/worker/render-worker.ts', import.meta.url), { type: 'module' })
  * and terminated to cancel.
  */
 import { isUserFacing } from '../errors.ts';
-import { transferables, type RenderRequest, type WorkerReply } from './messages.ts';
+import { errorToData, runRenderJob as runAnalysisJob } from './jobs.ts';
+import { transferables, type JobReply, type JobRequest, type RenderRequest, type WorkerReply } from './messages.ts';
 import { runRenderJob } from './render-job.ts';
 
 const scope = self as unknown as DedicatedWorkerGlobalScope;
@@ -15,8 +17,19 @@ function reply(message: WorkerReply, transfer: Transferable[] = []): void {
   scope.postMessage(message, transfer);
 }
 
-scope.onmessage = (event: MessageEvent<RenderRequest>) => {
+function runJob(request: JobRequest): void {
+  let answer: JobReply;
+  try {
+    answer = { kind: 'job-done', id: request.id, result: runAnalysisJob(request.job) };
+  } catch (error) {
+    answer = { kind: 'job-failed', id: request.id, error: errorToData(error) };
+  }
+  scope.postMessage(answer);
+}
+
+scope.onmessage = (event: MessageEvent<RenderRequest | JobRequest>) => {
   const request = event.data;
+  if (request?.kind === 'job') return runJob(request);
   if (request?.kind !== 'render') return;
   const id = request.id;
   let lastPostMs = 0;
