@@ -136,6 +136,19 @@ export function writeResults(outDir: string, reportName: string, report: Record<
 }
 
 /** Shell-quotes an argument for the "repeat" line of a report. */
+/** The flags every analysis command shares, appended to its repeat line. */
+export function repeatSharedFlags(
+  repeat: string[],
+  metrics: readonly string[],
+  seconds: number | null,
+  flags: { spl?: string; tone?: string; input?: string },
+): void {
+  repeat.push('--metrics', metrics.join(','), '--seconds', seconds === null ? 'all' : String(seconds));
+  if (flags.spl !== undefined) repeat.push('--spl', flags.spl);
+  if (flags.tone !== undefined) repeat.push('--tone', flags.tone);
+  if (flags.input !== undefined) repeat.push('--input', flags.input);
+}
+
 export function shellWord(word: string): string {
   return /^[A-Za-z0-9_./:=,@%+-]+$/.test(word) ? word : `'${word.replace(/'/g, `'\\''`)}'`;
 }

@@ -3,7 +3,7 @@ import { LEVEL_AXIS, parseSweepAxis, runSweep, sweepPoints, type SweepRow } from
 import { InputError } from '../errors.ts';
 import { settingsSummary } from '../scenario/index.ts';
 import type { Scenario } from '../scenario/types.ts';
-import { createRunner, defaultOutDir, excerptFlag, progressBar, readScenario, shellWord, withLevelFlag, withToneFlag, writeResults } from './analysis-common.ts';
+import { createRunner, defaultOutDir, excerptFlag, progressBar, readScenario, shellWord, withLevelFlag, withToneFlag, writeResults, repeatSharedFlags } from './analysis-common.ts';
 import { toText, type Table } from './tables.ts';
 
 export interface SweepFlags {
@@ -64,10 +64,7 @@ export async function runSweepCommand(file: string, flags: SweepFlags, write: (t
   };
   const failed = rows.filter((r) => !r.outcome.ok).length;
   const repeat = ['glowtalk', 'sweep', file, ...axes.flatMap((a) => ['--set', `${a.path}=${a.from}:${a.to}:${a.steps}:${a.log ? 'log' : 'lin'}`])];
-  repeat.push('--metrics', metrics.join(','), '--seconds', seconds === null ? 'all' : String(seconds));
-  if (flags.spl !== undefined) repeat.push('--spl', flags.spl);
-  if (flags.tone !== undefined) repeat.push('--tone', flags.tone);
-  if (flags.input !== undefined) repeat.push('--input', flags.input);
+  repeatSharedFlags(repeat, metrics, seconds, flags);
   const outDir = flags.out ?? defaultOutDir(file, 'sweep');
   const report = {
     command: 'sweep',

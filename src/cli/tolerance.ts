@@ -5,7 +5,7 @@ import { runTolerance, type ToleranceResult } from '../analysis/tolerance-run.ts
 import { InputError } from '../errors.ts';
 import { settingsSummary } from '../scenario/index.ts';
 import { readEngineering } from '../units/engineering.ts';
-import { createRunner, defaultOutDir, excerptFlag, numberFlag, progressBar, readScenario, shellWord, withLevelFlag, withToneFlag, writeResults } from './analysis-common.ts';
+import { createRunner, defaultOutDir, excerptFlag, numberFlag, progressBar, readScenario, shellWord, withLevelFlag, withToneFlag, writeResults, repeatSharedFlags } from './analysis-common.ts';
 import { formatNumber, toText, type Table } from './tables.ts';
 
 export interface ToleranceFlags {
@@ -111,10 +111,7 @@ export async function runToleranceCommand(file: string, flags: ToleranceFlags, w
   if (spec.photoBetaRange) repeat.push('--photo-beta', spec.photoBetaRange.join(':'));
   repeat.push('--led-vf', String(spec.ledForwardVolts), '--efficiency', String(spec.emitterEfficiencyPercent), '--distribution', spec.distribution);
   if (spec.fixed.length > 0) repeat.push('--fixed', spec.fixed.join(','));
-  repeat.push('--metrics', metrics.join(','), '--seconds', seconds === null ? 'all' : String(seconds));
-  if (flags.spl !== undefined) repeat.push('--spl', flags.spl);
-  if (flags.tone !== undefined) repeat.push('--tone', flags.tone);
-  if (flags.input !== undefined) repeat.push('--input', flags.input);
+  repeatSharedFlags(repeat, metrics, seconds, flags);
   const outDir = flags.out ?? defaultOutDir(file, 'tolerance');
   const report = {
     command: 'tolerance',
