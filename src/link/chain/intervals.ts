@@ -4,6 +4,15 @@ export interface TimeInterval {
   durationSeconds: number;
 }
 
+/** What a report says about one kind of episode (LED cut-off, saturation...): plain data. */
+export interface Episodes {
+  fraction: number;
+  totalSeconds: number;
+  count: number;
+  /** The first MAX_LISTED_INTERVALS episodes, in source time. */
+  intervals: TimeInterval[];
+}
+
 /** Intervals kept in a report at most; the count and total time go on beyond it. */
 export const MAX_LISTED_INTERVALS = 2000;
 
@@ -58,4 +67,9 @@ export class IntervalTracker {
     }
     this.startIndex = -1;
   }
+}
+
+/** The tracker's findings as plain data (call after `finish`). */
+export function toEpisodes(tracker: IntervalTracker): Episodes {
+  return { fraction: tracker.fraction, totalSeconds: tracker.totalSeconds, count: tracker.count, intervals: tracker.intervals };
 }

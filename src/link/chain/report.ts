@@ -1,17 +1,9 @@
 import type { Scenario } from '../../scenario/types.ts';
 import { pascalsToDbSpl } from '../acoustics/sound-level.ts';
-import type { IntervalTracker, TimeInterval } from './intervals.ts';
+import type { Episodes } from './intervals.ts';
 import type { CalibratedSource } from './source.ts';
-import type { TransistorWatch } from './transistor-watch.ts';
+import type { TransistorEpisodes } from './transistor-watch.ts';
 
-
-interface Episodes {
-  fraction: number;
-  totalSeconds: number;
-  count: number;
-  /** The first MAX_LISTED_INTERVALS episodes, in source time. */
-  intervals: TimeInterval[];
-}
 
 export interface RenderReport {
   durationSeconds: number;
@@ -58,9 +50,6 @@ export interface RenderReport {
   };
 }
 
-function episodes(tracker: IntervalTracker): Episodes {
-  return { fraction: tracker.fraction, totalSeconds: tracker.totalSeconds, count: tracker.count, intervals: tracker.intervals };
-}
 
 export function buildReport(input: {
   scenario: Scenario;
@@ -68,9 +57,9 @@ export function buildReport(input: {
   farEnd: { rmsVolts: number; peakVolts: number };
   restingLedAmperes: number;
   restingDetectorWatts: number;
-  led: { minimum: number; maximum: number; mean: number; cutoff: IntervalTracker };
+  led: { minimum: number; maximum: number; mean: number; cutoff: Episodes };
   channelGain: number;
-  watches: TransistorWatch[];
+  transistors: TransistorEpisodes[];
   solver: RenderReport['solver'];
 }): RenderReport {
   const { scenario, source, farEnd } = input;
@@ -102,10 +91,10 @@ export function buildReport(input: {
       maximumAmperes: input.led.maximum,
       meanAmperes: input.led.mean,
       cutoffThresholdAmperes: scenario.transmitter.cutoffAmperes,
-      cutoff: episodes(input.led.cutoff),
+      cutoff: input.led.cutoff,
     },
     light: { channelGain: input.channelGain, restingDetectorWatts: input.restingDetectorWatts },
-    transistors: input.watches.map((w) => ({ circuit: w.circuit, ref: w.ref, saturation: episodes(w.saturation), cutoff: episodes(w.cutoff) })),
+    transistors: input.transistors,
     farEnd: {
       rmsVolts: farRms,
       peakVolts: farPeak,

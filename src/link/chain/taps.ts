@@ -95,7 +95,7 @@ export class TapCapture {
 export function resolveTap(
   name: string,
   where: string,
-  circuits: { transmitter: Simulator; receiver: Simulator; ledRef: string },
+  circuits: { transmitter?: Simulator; receiver?: Simulator; ledRef: string },
 ): { source: TapSource; unit: TapRecord['unit']; internalRate: boolean } {
   const fixed = FIXED_TAPS[name];
   if (fixed) return { source: { stage: fixed.stage }, unit: fixed.unit, internalRate: fixed.stage === 'emitter' || fixed.stage === 'detector' };
@@ -105,9 +105,15 @@ export function resolveTap(
     let inner = name.slice(dot + 1);
     if (stage === 'transmitter' && inner === 'led') inner = circuits.ledRef;
     const simulator = circuits[stage];
+    if (!simulator) throw new Error(`tap ${name} resolved on the wrong side of the link`);
     const probe = resolveProbe(simulator, inner, where);
     const isNode = simulator.system.nodeIndex(inner) !== undefined;
     return { source: { stage, probe }, unit: isNode ? 'V' : 'A', internalRate: true };
   }
   throw new InputError(where, `a tap name: ${FIXED_TAP_NAMES.join(', ')}, or transmitter.X / receiver.X (X a node, part ref or REF.PIN)`, `got "${name}"`);
+}
+
+/** Which side of the link a tap belongs to (the receiver side: `receiver.X` and `speaker.volts`). */
+export function isReceiverTap(name: string): boolean {
+  return name.startsWith('receiver.') || name === 'speaker.volts';
 }

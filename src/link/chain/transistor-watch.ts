@@ -1,6 +1,6 @@
 import { Bjt, REGION_CUTOFF, REGION_SATURATION } from '../../devices/bjt.ts';
 import type { Simulator } from '../../solver/simulator.ts';
-import { IntervalTracker } from './intervals.ts';
+import { IntervalTracker, toEpisodes, type Episodes } from './intervals.ts';
 
 /** Saturation and cut-off episodes of one transistor of the link. */
 export interface TransistorWatch {
@@ -36,4 +36,21 @@ export function updateWatches(watches: readonly TransistorWatch[], index: number
     w.saturation.update(index, region === REGION_SATURATION);
     w.cutoff.update(index, region === REGION_CUTOFF);
   }
+}
+
+/** A transistor's episodes as plain data for the report. */
+export interface TransistorEpisodes {
+  circuit: TransistorWatch['circuit'];
+  ref: string;
+  saturation: Episodes;
+  cutoff: Episodes;
+}
+
+/** Ends every open episode and returns the findings. */
+export function finishWatches(watches: readonly TransistorWatch[]): TransistorEpisodes[] {
+  return watches.map((w) => {
+    w.saturation.finish();
+    w.cutoff.finish();
+    return { circuit: w.circuit, ref: w.ref, saturation: toEpisodes(w.saturation), cutoff: toEpisodes(w.cutoff) };
+  });
 }

@@ -1,0 +1,150 @@
+import { Bjt } from '../../devices/bjt.ts';
+import type { DriveSignal } from '../../devices/wave.ts';
+import { InputError } from '../../errors.ts';
+import type { Scenario } from '../../scenario/types.ts';
+import { Simulator } from '../../solver/simulator.ts';
+import { Decimator } from '../oversampler.ts';
+import { withLightInputAndSpeaker } from './rewire.ts';
+import { TapCapture, resolveTap, type TapRecord } from './taps.ts';
+import type { StageSettings } from './transmitter-stage.ts';
+import { finishWatches, updateWatches, watchTransistors, type TransistorEpisodes, type TransistorWatch } from './transistor-watch.ts';
+
+/** Where the receiver stage stands in the run (from the transmitter stage). */
+export interface ReceiverTiming {
+  sampleRateHertz: number;
+  factor: number;
+  totalSamples: number;
+  latencySamples: number;
+  upLatencyInternal: number;
+  offsetSeconds: number;
+  /** The detector's light drive at rest, watts. */
+  restingLightDriveWatts: number;
+}
+
+export interface ReceiverSummary {
+  farEndRmsVolts: number;
+  farEndPeakVolts: number;
+  transistors: TransistorEpisodes[];
+  steps: number;
+  newtonIterations: number;
+  subdividedSteps: number;
+  seconds: number;
+  taps: TapRecord[];
+}
+
+/**
+ * The second half of the link: the detector's light → receiver circuit →
+ * speaker volts → decimated to the audio rate, with the filter latency taken
+ * off so the far end lines up with the source.
+ */
+export class ReceiverStage {
+  readonly taps: TapCapture[];
+  private readonly simulator: Simulator;
+  private readonly drive: DriveSignal;
+  private readonly speakerPlus: number;
+  private readonly speakerMinus: number;
+  private readonly down: Decimator;
+  private readonly watches: TransistorWatch[];
+  private readonly speaker: Float64Array;
+  private readonly farChunk: Float64Array;
+  private previousLightWatts: number;
+  private index = 0;
+  private farWritten: number;
+  private squares = 0;
+  private peak = 0;
+  private count = 0;
+  private milliseconds = 0;
+
+  constructor(
+    scenario: Scenario,
+    private readonly settings: StageSettings,
+    private readonly timing: ReceiverTiming,
+    tapNames: readonly string[],
+    /** Receives the far end (volts) in order, chunk by chunk. */
+    private readonly onFarEnd: (chunk: Float64Array, offset: number) => void,
+  ) {
+    const r = scenario.receiver;
+    this.simulator = new Simulator(withLightInputAndSpeaker(r.circuit, r.detector, r.output, r.speakerOhms), settings.solver);
+    const detector = this.simulator.system.devicesByRef.get(r.detector);
+    if (!(detector instanceof Bjt) || !detector.light) throw new InputError('receiver.detector', 'the ref of a phototransistor in the receiver circuit');
+    this.drive = detector.light;
+    this.speakerPlus = this.simulator.system.nodeIndex(r.output[0]) ?? -1;
+    this.speakerMinus = this.simulator.system.nodeIndex(r.output[1]) ?? -1;
+    this.drive.upstreamValue = timing.restingLightDriveWatts;
+    this.previousLightWatts = timing.restingLightDriveWatts;
+    this.simulator.operatingPoint();
+    const h = 1 / (timing.sampleRateHertz * timing.factor);
+    this.down = new Decimator(timing.factor);
+    this.farWritten = -timing.latencySamples;
+    this.watches = watchTransistors('receiver', this.simulator, h, timing.offsetSeconds);
+    const total = timing.totalSamples;
+    this.taps = tapNames.map((name) => {
+      const tap = resolveTap(name, `taps: ${name}`, { receiver: this.simulator, ledRef: scenario.transmitter.led });
+      return new TapCapture(
+        name,
+        tap.unit,
+        tap.internalRate ? timing.sampleRateHertz * timing.factor : timing.sampleRateHertz,
+        tap.source,
+        tap.internalRate ? timing.upLatencyInternal : 0,
+        tap.internalRate ? total * timing.factor : total,
+        settings.onTap,
+      );
+    });
+    this.speaker = new Float64Array(settings.chunkSamples * timing.factor);
+    this.farChunk = new Float64Array(settings.chunkSamples + 1);
+  }
+
+  /** Steps the receiver through `m` internal samples of light (watts). */
+  process(light: Float64Array, m: number): void {
+    const { simulator, drive, speaker, watches } = this;
+    const substeps = this.settings.substeps;
+    const hSub = 1 / (this.timing.sampleRateHertz * this.timing.factor) / substeps;
+    const plus = this.speakerPlus;
+    const minus = this.speakerMinus;
+    const circuitTaps = this.taps.filter((t) => t.source.stage === 'receiver');
+    const clock = performance.now();
+    for (let i = 0; i < m; i++) {
+      const index = this.index++;
+      const watts = light[i];
+      for (let k = substeps - 1; k >= 0; k--) {
+        drive.upstreamValue = watts - (k / substeps) * (watts - this.previousLightWatts);
+        simulator.step(hSub, ((index + 1) * substeps - k) * hSub);
+      }
+      this.previousLightWatts = watts;
+      const x = simulator.x;
+      speaker[i] = (plus < 0 ? 0 : x[plus]) - (minus < 0 ? 0 : x[minus]);
+      updateWatches(watches, index, x);
+      for (const tap of circuitTaps) tap.push((tap.source as { probe: (x: Float64Array) => number }).probe(x));
+    }
+    this.milliseconds += performance.now() - clock;
+
+    const produced = this.down.process(speaker.subarray(0, m), this.farChunk);
+    const from = Math.max(0, -this.farWritten);
+    const to = Math.min(produced, this.timing.totalSamples - this.farWritten);
+    const speakerTaps = this.taps.filter((t) => t.source.stage === 'speaker');
+    for (let i = from; i < to; i++) {
+      const v = this.farChunk[i];
+      this.squares += v * v;
+      if (Math.abs(v) > this.peak) this.peak = Math.abs(v);
+      for (const tap of speakerTaps) tap.push(v);
+    }
+    if (to > from) {
+      this.onFarEnd(this.farChunk.subarray(from, to), this.farWritten + from);
+      this.count += to - from;
+    }
+    this.farWritten += produced;
+  }
+
+  summary(): ReceiverSummary {
+    return {
+      farEndRmsVolts: Math.sqrt(this.squares / Math.max(1, this.count)),
+      farEndPeakVolts: this.peak,
+      transistors: finishWatches(this.watches),
+      steps: this.simulator.steps,
+      newtonIterations: this.simulator.newton.totalIterations,
+      subdividedSteps: this.simulator.subdividedSteps,
+      seconds: this.milliseconds / 1000,
+      taps: this.taps.map((t) => t.finish()),
+    };
+  }
+}

@@ -1,0 +1,261 @@
+import { Diode } from '../../devices/diode.ts';
+import type { DriveSignal } from '../../devices/wave.ts';
+import { VoltageSource } from '../../devices/sources.ts';
+import { InputError } from '../../errors.ts';
+import type { PhototransistorModel } from '../../circuit/types.ts';
+import type { Scenario } from '../../scenario/types.ts';
+import { Simulator, type SimulatorOptions } from '../../solver/simulator.ts';
+import { LightPath } from '../light-path/light-path.ts';
+import { Microphone } from '../microphone.ts';
+import { Decimator, Upsampler } from '../oversampler.ts';
+import { IntervalTracker, toEpisodes, type Episodes } from './intervals.ts';
+import { withMicrophoneResistance } from './rewire.ts';
+import { calibratedSource, type CalibratedSource, type Recording } from './source.ts';
+import { TapCapture, resolveTap, type TapRecord } from './taps.ts';
+import { finishWatches, updateWatches, watchTransistors, type TransistorEpisodes, type TransistorWatch } from './transistor-watch.ts';
+
+/** Settings shared by both stages of a render. */
+export interface StageSettings {
+  solver: SimulatorOptions;
+  /** Integration steps per internal sample (1 = one). */
+  substeps: number;
+  /** Audio-rate samples per chunk. */
+  chunkSamples: number;
+  /** Receives tap blocks as they fill (then the tap records come back empty). */
+  onTap?: (name: string, block: Float32Array) => void;
+}
+
+export interface TransmitterSummary {
+  led: { minimum: number; maximum: number; mean: number; cutoff: Episodes };
+  transistors: TransistorEpisodes[];
+  steps: number;
+  newtonIterations: number;
+  subdividedSteps: number;
+  seconds: number;
+  taps: TapRecord[];
+}
+
+/**
+ * The first half of the link: source → microphone → upsampler → transmitter
+ * circuit → LED light → light path. Each `next` turns one audio chunk into the
+ * light that drives the receiver's detector, sample by sample at the internal
+ * rate (expressed as watts of light, the detector noise included).
+ */
+export class TransmitterStage {
+  readonly source: CalibratedSource;
+  readonly sampleRateHertz: number;
+  readonly factor: number;
+  readonly internalRateHertz: number;
+  /** Source samples; the run feeds `latencySamples` of silence after them so the far end is complete. */
+  readonly totalSamples: number;
+  readonly latencySamples: number;
+  /** Internal samples by which the circuits lag the source (the upsampler). */
+  readonly upLatencyInternal: number;
+  /** Source time of internal sample 0 (negative: the filter fill). */
+  readonly offsetSeconds: number;
+  readonly restingLedAmperes: number;
+  readonly restingDetectorWatts: number;
+  /** The detector's light drive at rest, watts (ambient and dark current included). */
+  readonly restingLightDriveWatts: number;
+  readonly channelGain: number;
+  readonly taps: TapCapture[];
+  private readonly simulator: Simulator;
+  private readonly microphone: Microphone;
+  private readonly up: Upsampler;
+  private readonly lightPath: LightPath;
+  private readonly drive: DriveSignal;
+  private readonly led: Diode;
+  private readonly responsivity: number;
+  private readonly cutoffAmperes: number;
+  private readonly ledCutoff: IntervalTracker;
+  private readonly watches: TransistorWatch[];
+  private readonly pascals: Float64Array;
+  private readonly micVolts: Float64Array;
+  private readonly internal: Float64Array;
+  private readonly emitterWatts: Float64Array;
+  private readonly detectorWatts: Float64Array;
+  private readonly photoAmperes: Float64Array;
+  private position = 0;
+  private step = 0;
+  private previousMicVolts = 0;
+  private ledMin = Infinity;
+  private ledMax = -Infinity;
+  private ledSum = 0;
+  private ledCount = 0;
+  private milliseconds = 0;
+
+  constructor(
+    scenario: Scenario,
+    recording: Recording | undefined,
+    private readonly settings: StageSettings,
+    tapNames: readonly string[],
+  ) {
+    const fs = scenario.sampleRateHertz;
+    this.sampleRateHertz = fs;
+    this.factor = scenario.oversampling;
+    this.internalRateHertz = fs * this.factor;
+    const h = 1 / this.internalRateHertz;
+    this.source = calibratedSource(scenario.source, fs, recording);
+    this.microphone = new Microphone({ ...scenario.microphone, sampleRateHertz: fs });
+    const t = scenario.transmitter;
+    this.simulator = new Simulator(withMicrophoneResistance(t.circuit, t.inputSource, scenario.microphone.outputResistanceOhms), settings.solver);
+    const input = this.simulator.system.devicesByRef.get(t.inputSource);
+    if (!(input instanceof VoltageSource) || !input.drive.isUpstream) {
+      throw new InputError('transmitter.input', 'the ref of a voltage source whose wave is {"shape": "upstream"}');
+    }
+    this.drive = input.drive;
+    const led = this.simulator.system.devicesByRef.get(t.led);
+    if (!(led instanceof Diode) || !led.isLed) throw new InputError('transmitter.led', 'the ref of an LED in the transmitter circuit');
+    this.led = led;
+    this.cutoffAmperes = t.cutoffAmperes;
+    const detectorPart = scenario.receiver.circuit.parts.find((p) => p.ref === scenario.receiver.detector);
+    if (detectorPart?.kind !== 'phototransistor') throw new InputError('receiver.detector', 'the ref of a phototransistor in the receiver circuit');
+    this.responsivity = (detectorPart as { model: PhototransistorModel }).model.responsivity;
+
+    const lp = scenario.lightPath;
+    this.lightPath = new LightPath({
+      sampleRateHertz: this.internalRateHertz,
+      channel: lp.channel,
+      ambient: lp.ambient,
+      detector: {
+        responsivityAmperesPerWatt: this.responsivity,
+        darkCurrentAmperes: lp.darkCurrentAmperes,
+        shotNoise: lp.shotNoise,
+        thermalNoiseOhms: lp.thermalNoiseOhms,
+        temperatureKelvin: 300,
+        seed: lp.seed,
+      },
+    });
+    this.channelGain = this.lightPath.gain;
+
+    this.simulator.operatingPoint();
+    this.restingLedAmperes = led.junctionCurrent(this.simulator.x);
+    this.restingDetectorWatts = this.channelGain * led.opticalWatts(this.simulator.x) + (lp.ambient?.meanPowerWatts ?? 0);
+    this.restingLightDriveWatts = this.restingDetectorWatts + lp.darkCurrentAmperes / this.responsivity;
+
+    this.up = new Upsampler(this.factor);
+    this.latencySamples = this.up.latencySamples + new Decimator(this.factor).latencySamples;
+    this.upLatencyInternal = this.up.latencyInternalSamples;
+    this.offsetSeconds = -this.upLatencyInternal * h;
+    this.totalSamples = this.source.pascals.length;
+    this.ledCutoff = new IntervalTracker(h, this.offsetSeconds);
+    this.watches = watchTransistors('transmitter', this.simulator, h, this.offsetSeconds);
+
+    const total = this.totalSamples;
+    this.taps = tapNames.map((name) => {
+      const tap = resolveTap(name, `taps: ${name}`, { transmitter: this.simulator, ledRef: t.led });
+      return new TapCapture(
+        name,
+        tap.unit,
+        tap.internalRate ? this.internalRateHertz : fs,
+        tap.source,
+        tap.internalRate ? this.upLatencyInternal : 0,
+        tap.internalRate ? total * this.factor : total,
+        settings.onTap,
+      );
+    });
+
+    const chunk = settings.chunkSamples;
+    this.pascals = new Float64Array(chunk);
+    this.micVolts = new Float64Array(chunk);
+    this.internal = new Float64Array(chunk * this.factor);
+    this.emitterWatts = new Float64Array(chunk * this.factor);
+    this.detectorWatts = new Float64Array(chunk * this.factor);
+    this.photoAmperes = new Float64Array(chunk * this.factor);
+  }
+
+  /** Audio samples fed so far, out of `totalSamples + latencySamples`. */
+  get fraction(): number {
+    return this.position / (this.totalSamples + this.latencySamples);
+  }
+
+  /**
+   * Runs the next audio chunk; writes the detector's light drive (watts) for
+   * each internal sample into `light` and returns how many (0 when done).
+   */
+  next(light: Float64Array): number {
+    const padded = this.totalSamples + this.latencySamples;
+    if (this.position >= padded) return 0;
+    const start = this.position;
+    const n = Math.min(this.settings.chunkSamples, padded - start);
+    const total = this.totalSamples;
+    const source = this.source.pascals;
+    const inputs = this.pascals.subarray(0, n);
+    for (let i = 0; i < n; i++) inputs[i] = start + i < total ? source[start + i] : 0;
+    const volts = this.micVolts.subarray(0, n);
+    this.microphone.process(inputs, volts);
+    for (const tap of this.taps) {
+      if (tap.source.stage === 'source') for (let i = 0; i < n; i++) if (start + i < total) tap.push(inputs[i]);
+      if (tap.source.stage === 'microphone') for (let i = 0; i < n; i++) if (start + i < total) tap.push(volts[i]);
+    }
+    const m = this.up.process(volts, this.internal);
+    this.position += n;
+
+    const clock = performance.now();
+    this.runCircuit(m);
+    this.milliseconds += performance.now() - clock;
+
+    const emitted = this.emitterWatts.subarray(0, m);
+    const detected = this.detectorWatts.subarray(0, m);
+    const amperes = this.photoAmperes.subarray(0, m);
+    this.lightPath.process(emitted, detected);
+    this.lightPath.photocurrent(detected, amperes);
+    for (const tap of this.taps) {
+      if (tap.source.stage === 'emitter') for (let i = 0; i < m; i++) tap.push(emitted[i]);
+      if (tap.source.stage === 'detector') for (let i = 0; i < m; i++) tap.push(detected[i]);
+    }
+    const perWatt = 1 / this.responsivity;
+    for (let i = 0; i < m; i++) light[i] = amperes[i] * perWatt;
+    return m;
+  }
+
+  private runCircuit(m: number): void {
+    const { simulator, drive, led, internal, watches } = this;
+    const substeps = this.settings.substeps;
+    const hSub = 1 / this.internalRateHertz / substeps;
+    const first = this.upLatencyInternal;
+    const last = first + this.totalSamples * this.factor;
+    const circuitTaps = this.taps.filter((t) => t.source.stage === 'transmitter');
+    for (let i = 0; i < m; i++) {
+      this.step++;
+      // Substeps see the input interpolated linearly, as the trapezoidal rule assumes between samples.
+      for (let k = substeps - 1; k >= 0; k--) {
+        drive.upstreamValue = internal[i] - (k / substeps) * (internal[i] - this.previousMicVolts);
+        simulator.step(hSub, (this.step * substeps - k) * hSub);
+      }
+      this.previousMicVolts = internal[i];
+      const x = simulator.x;
+      const amperes = led.junctionCurrent(x);
+      this.emitterWatts[i] = amperes > 0 ? amperes * led.wattsPerAmpere : 0;
+      const index = this.step - 1;
+      this.ledCutoff.update(index, amperes < this.cutoffAmperes);
+      if (index >= first && index < last) {
+        if (amperes < this.ledMin) this.ledMin = amperes;
+        if (amperes > this.ledMax) this.ledMax = amperes;
+        this.ledSum += amperes;
+        this.ledCount++;
+      }
+      updateWatches(watches, index, x);
+      for (const tap of circuitTaps) tap.push((tap.source as { probe: (x: Float64Array) => number }).probe(x));
+    }
+  }
+
+  summary(): TransmitterSummary {
+    this.ledCutoff.finish();
+    return {
+      led: {
+        minimum: this.ledMin,
+        maximum: this.ledMax,
+        mean: this.ledCount > 0 ? this.ledSum / this.ledCount : 0,
+        cutoff: toEpisodes(this.ledCutoff),
+      },
+      transistors: finishWatches(this.watches),
+      steps: this.simulator.steps,
+      newtonIterations: this.simulator.newton.totalIterations,
+      subdividedSteps: this.simulator.subdividedSteps,
+      seconds: this.milliseconds / 1000,
+      taps: this.taps.map((t) => t.finish()),
+    };
+  }
+}
+
