@@ -77,7 +77,7 @@ export class GtMarginPlot extends LitElement {
     const options: uPlot.Options = {
       width: Math.max(300, Math.floor(this.getBoundingClientRect().width) || 600),
       height: this.height,
-      scales: { x: { time: false }, y: this.bars ? { range: (_u, _min, max) => [0, Math.max(1, max)] } : {}, y2: {} },
+      scales: { x: { time: false }, y: this.bars ? { range: (_u, _min, max) => [0, Math.max(1, Math.ceil(max * 1.15))] } : {}, y2: {} },
       axes: [
         { stroke: PLOT.text, font: PLOT.font, grid: { stroke: PLOT.grid }, ticks: { stroke: PLOT.tick }, label: this.xLabel, labelFont: PLOT.font, labelSize: 16 },
         axis('y', 3, left?.unit ?? ''),
