@@ -52,6 +52,7 @@ export async function main(argv: string[], io = defaultIo()): Promise<number> {
     .option('--spl <dB>', 'talker level at the microphone in dB SPL (overrides the scenario)')
     .option('--effort <effort>', 'vocal effort: normal, raised, loud or shout (with --distance)')
     .option('--distance <metres>', 'talker distance from the microphone, e.g. 0.3')
+    .option('--workers <n>', 'threads: 2 runs the transmitter and the receiver side by side (default on 2+ cores), 1 runs them in turn')
     .option('--no-progress', 'no progress bar')
     .action((file: string, flags: RenderFlags) => runRender(file, flags, io.out));
 

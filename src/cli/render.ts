@@ -3,7 +3,9 @@ import { SingleBar } from 'cli-progress';
 import { decodeWav } from '../audio/wav-read.ts';
 import { encodeWav } from '../audio/wav-write.ts';
 import { InputError } from '../errors.ts';
-import { renderScenario } from '../link/chain/chain.ts';
+import { renderScenario, type RenderOptions } from '../link/chain/chain.ts';
+import { renderPipelined } from '../worker/node-pipeline.ts';
+import { availableParallelism } from 'node:os';
 import { summariseRender } from '../link/chain/summary.ts';
 import type { Recording } from '../link/chain/source.ts';
 import { VOCAL_EFFORTS, type VocalEffort } from '../link/acoustics/sound-level.ts';
@@ -22,10 +24,11 @@ export interface RenderFlags {
   effort?: string;
   distance?: string;
   progress?: boolean;
+  workers?: string;
 }
 
 /** `glowtalk render SCENARIO`: far-end WAV, tap WAVs and report.json; a summary on the terminal. */
-export function runRender(scenarioFile: string, flags: RenderFlags, write: (text: string) => void): void {
+export async function runRender(scenarioFile: string, flags: RenderFlags, write: (text: string) => void): Promise<void> {
   const inputs: string[] = [scenarioFile];
   const base = path.dirname(scenarioFile);
   const scenario = loadScenarioText(
@@ -50,6 +53,8 @@ export function runRender(scenarioFile: string, flags: RenderFlags, write: (text
   const format = flags.format ?? adjusted.output.format;
   if (format !== 'pcm16' && format !== 'float32') throw new InputError('--format', '"pcm16" or "float32"', `got "${format}"`);
   const outDir = flags.out ?? path.join('out', path.basename(scenarioFile).replace(/\.json$/i, ''));
+  const threads = flags.workers === undefined ? Math.min(2, availableParallelism()) : Number(flags.workers);
+  if (threads !== 1 && threads !== 2) throw new InputError('--workers', '1 (one thread) or 2 (transmitter and receiver on two threads)', `got "${flags.workers}"`);
   // Check before the (long) render, not after it.
   for (const name of ['far-end.wav', 'source.wav', 'report.json']) refuseInputOverwrite(path.join(outDir, name), inputs);
 
@@ -66,9 +71,9 @@ export function runRender(scenarioFile: string, flags: RenderFlags, write: (text
   };
   const gain = 10 ** (adjusted.output.listeningGainDb / 20);
   const listening = new Float64Array(4096);
-  let result;
+  let result: Awaited<ReturnType<typeof renderPipelined>>;
   try {
-    result = renderScenario(adjusted, {
+    const renderOptions: RenderOptions = {
       recording,
       taps: flags.tap,
       onStart: (info) => {
@@ -95,7 +100,9 @@ export function runRender(scenarioFile: string, flags: RenderFlags, write: (text
         }
         if (barStarted) bar.update(Math.round(fraction * 100));
       },
-    });
+    };
+    // Two threads: the transmitter half on a worker, the receiver half here (identical output).
+    result = threads > 1 ? await renderPipelined(adjusted, renderOptions) : renderScenario(adjusted, renderOptions);
     for (const w of writers.values()) {
       w.file.write(w.encoder.trailer());
       w.file.commit();

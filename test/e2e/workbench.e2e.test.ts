@@ -258,16 +258,16 @@ describe('the workbench page in Chromium', () => {
 
   it('keeps a snapshot, compares it with a changed part, and switches A/B at the same position', async () => {
     await page.locator('nav [data-view="compare"]').click();
-    await page.locator('gt-compare-panel [data-snapshot-name]').fill('RE2A 560');
+    await page.locator('gt-compare-panel [data-snapshot-name]').fill('RE2A 1k');
     await page.locator('gt-compare-panel [data-keep]').click();
-    await expect.poll(() => page.locator('gt-compare-panel [data-snapshot="RE2A 560"]').count()).toBe(1);
+    await expect.poll(() => page.locator('gt-compare-panel [data-snapshot="RE2A 1k"]').count()).toBe(1);
 
     const before = await count('renders');
-    await page.locator('gt-parts-table input[data-path="transmitter.circuit.parts[RE2A].value"]').fill('1k');
+    await page.locator('gt-parts-table input[data-path="transmitter.circuit.parts[RE2A].value"]').fill('820');
     await renderedAfter(before);
-    await page.locator('gt-compare-panel [data-snapshot="RE2A 560"] [data-compare]').click();
+    await page.locator('gt-compare-panel [data-snapshot="RE2A 1k"] [data-compare]').click();
     const differences = await page.locator('gt-compare-panel [data-differences]').innerText();
-    expect(differences).toMatch(/transmitter\.circuit\.parts\[RE2A\]\.value\s+560\s+1000/);
+    expect(differences).toMatch(/transmitter\.circuit\.parts\[RE2A\]\.value\s+1000\s+820/);
     expect(await page.locator('gt-compare-panel [data-metrics]').innerText()).toMatch(/LED current at rest/);
     await shot('7-compare');
 
@@ -280,7 +280,7 @@ describe('the workbench page in Chromium', () => {
     expect(await ab.innerText()).toMatch(/A\s+current far end/);
     const atSwitch = parseFloat(await page.locator('gt-listen-bar [data-position]').innerText());
     await ab.click();
-    await expect.poll(() => ab.innerText()).toMatch(/B\s+“RE2A 560”/);
+    await expect.poll(() => ab.innerText()).toMatch(/B\s+“RE2A 1k”/);
     expect(await page.locator('gt-listen-bar [data-play]').getAttribute('data-playing')).toBe('true');
     // The switch keeps the position: playback goes on from where it was, it does not restart.
     expect(parseFloat(await page.locator('gt-listen-bar [data-position]').innerText())).toBeGreaterThanOrEqual(atSwitch);
@@ -293,11 +293,11 @@ describe('the workbench page in Chromium', () => {
     await page.waitForTimeout(500); // the scenario is saved a moment after an edit
     await page.reload();
     await renderedAfter(0, 60_000);
-    await expect(page.locator('gt-parts-table input[data-path="transmitter.circuit.parts[RE2A].value"]').inputValue()).resolves.toBe('1k');
+    await expect(page.locator('gt-parts-table input[data-path="transmitter.circuit.parts[RE2A].value"]').inputValue()).resolves.toBe('820');
     await expect(page.locator('gt-parts-table input[data-path="transmitter.circuit.parts[RB].value"]').inputValue()).resolves.toBe('68k');
     expect(await page.locator('[data-last-run]').innerText()).toMatch(/of 1\.50 s/);
     await page.locator('nav [data-view="compare"]').click();
-    await expect.poll(() => page.locator('gt-compare-panel [data-snapshot="RE2A 560"]').count()).toBe(1);
+    await expect.poll(() => page.locator('gt-compare-panel [data-snapshot="RE2A 1k"]').count()).toBe(1);
     await shot('8-reloaded');
     expect(bench.errors).toEqual([]);
   });

@@ -112,10 +112,19 @@ function startInfo(transmitter: TransmitterStage, receiver: ReceiverStage): Para
   };
 }
 
+/** What the report needs to know of the transmitter stage besides its summary (plain data). */
+export interface TransmitterFacts {
+  source: TransmitterStage['source'];
+  restingLedAmperes: number;
+  restingDetectorWatts: number;
+  channelGain: number;
+  internalRateHertz: number;
+}
+
 /** The result of a render from the two stages' summaries. */
 export function assembleResult(
   scenario: Scenario,
-  transmitter: TransmitterStage,
+  transmitter: TransmitterFacts,
   tx: TransmitterSummary,
   rx: ReceiverSummary,
   farEnd: Float64Array,
