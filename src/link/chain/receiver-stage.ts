@@ -103,19 +103,21 @@ export class ReceiverStage {
     const minus = this.speakerMinus;
     const circuitTaps = this.taps.filter((t) => t.source.stage === 'receiver');
     const clock = performance.now();
+    let previous = this.previousLightWatts;
     for (let i = 0; i < m; i++) {
       const index = this.index++;
       const watts = light[i];
       for (let k = substeps - 1; k >= 0; k--) {
-        drive.upstreamValue = watts - (k / substeps) * (watts - this.previousLightWatts);
+        drive.upstreamValue = watts - (k / substeps) * (watts - previous);
         simulator.step(hSub, ((index + 1) * substeps - k) * hSub);
       }
-      this.previousLightWatts = watts;
+      previous = watts;
       const x = simulator.x;
       speaker[i] = (plus < 0 ? 0 : x[plus]) - (minus < 0 ? 0 : x[minus]);
       updateWatches(watches, index, x);
       for (const tap of circuitTaps) tap.push((tap.source as { probe: (x: Float64Array) => number }).probe(x));
     }
+    this.previousLightWatts = previous;
     this.milliseconds += performance.now() - clock;
 
     const produced = this.down.process(speaker.subarray(0, m), this.farChunk);

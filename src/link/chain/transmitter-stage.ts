@@ -210,34 +210,48 @@ export class TransmitterStage {
   }
 
   private runCircuit(m: number): void {
-    const { simulator, drive, led, internal, watches } = this;
+    const { simulator, drive, led, internal, watches, emitterWatts, ledCutoff, cutoffAmperes } = this;
     const substeps = this.settings.substeps;
     const hSub = 1 / this.internalRateHertz / substeps;
     const first = this.upLatencyInternal;
     const last = first + this.totalSamples * this.factor;
     const circuitTaps = this.taps.filter((t) => t.source.stage === 'transmitter');
+    // Hot loop: state in locals, written back at the end.
+    let step = this.step;
+    let previous = this.previousMicVolts;
+    let ledMin = this.ledMin;
+    let ledMax = this.ledMax;
+    let ledSum = this.ledSum;
+    let ledCount = this.ledCount;
     for (let i = 0; i < m; i++) {
-      this.step++;
+      step++;
+      const volts = internal[i];
       // Substeps see the input interpolated linearly, as the trapezoidal rule assumes between samples.
       for (let k = substeps - 1; k >= 0; k--) {
-        drive.upstreamValue = internal[i] - (k / substeps) * (internal[i] - this.previousMicVolts);
-        simulator.step(hSub, (this.step * substeps - k) * hSub);
+        drive.upstreamValue = volts - (k / substeps) * (volts - previous);
+        simulator.step(hSub, (step * substeps - k) * hSub);
       }
-      this.previousMicVolts = internal[i];
+      previous = volts;
       const x = simulator.x;
       const amperes = led.junctionCurrent(x);
-      this.emitterWatts[i] = amperes > 0 ? amperes * led.wattsPerAmpere : 0;
-      const index = this.step - 1;
-      this.ledCutoff.update(index, amperes < this.cutoffAmperes);
+      emitterWatts[i] = amperes > 0 ? amperes * led.wattsPerAmpere : 0;
+      const index = step - 1;
+      ledCutoff.update(index, amperes < cutoffAmperes);
       if (index >= first && index < last) {
-        if (amperes < this.ledMin) this.ledMin = amperes;
-        if (amperes > this.ledMax) this.ledMax = amperes;
-        this.ledSum += amperes;
-        this.ledCount++;
+        if (amperes < ledMin) ledMin = amperes;
+        if (amperes > ledMax) ledMax = amperes;
+        ledSum += amperes;
+        ledCount++;
       }
       updateWatches(watches, index, x);
       for (const tap of circuitTaps) tap.push((tap.source as { probe: (x: Float64Array) => number }).probe(x));
     }
+    this.step = step;
+    this.previousMicVolts = previous;
+    this.ledMin = ledMin;
+    this.ledMax = ledMax;
+    this.ledSum = ledSum;
+    this.ledCount = ledCount;
   }
 
   summary(): TransmitterSummary {
