@@ -50,9 +50,9 @@ describe('the page’s scenario document', () => {
     const { doc } = demo();
     const same = writeField(doc.json, 'microphone.outputResistance', 2200);
     expect(settingDifferences(doc.json, same)).toEqual([]);
-    const edit = applyEdit(doc, 'transmitter.circuit.parts[RE2A].value', 1000);
+    const edit = applyEdit(doc, 'transmitter.circuit.parts[RE2A].value', 820);
     if (!edit.ok) throw new Error(edit.reason);
-    expect(settingDifferences(doc.json, edit.doc.json)).toEqual([{ path: 'transmitter.circuit.parts[RE2A].value', before: '560', after: '1000' }]);
+    expect(settingDifferences(doc.json, edit.doc.json)).toEqual([{ path: 'transmitter.circuit.parts[RE2A].value', before: '1000', after: '820' }]);
   });
 });
 
