@@ -9,6 +9,7 @@
  */
 import { errorFromData, type JobRunner, type RenderJob, type RenderJobResult } from '../../src/worker/jobs.ts';
 import type { JobReply, JobRequest } from '../../src/worker/messages.ts';
+import { JobQueue } from '../../src/worker/job-queue.ts';
 
 /** The error of every job a cancel stopped. */
 export class PoolCancelled extends Error {
@@ -23,43 +24,28 @@ export function marginWorkerCount(): number {
   return Math.max(1, Math.min(2, navigator.hardwareConcurrency || 1));
 }
 
-interface Pending {
-  id: number;
-  job: RenderJob;
-  resolve: (result: RenderJobResult) => void;
-  reject: (error: Error) => void;
-}
-
-interface Slot {
-  worker: Worker;
-  busy: Pending | null;
-}
-
 export class BrowserPool implements JobRunner {
-  private readonly slots: Slot[] = [];
-  private readonly queue: Pending[] = [];
-  private nextId = 1;
-  private stopped: Error | null = null;
+  private readonly workers: Worker[] = [];
+  private readonly queue: JobQueue;
 
   constructor(readonly size: number = marginWorkerCount()) {
-    for (let i = 0; i < size; i++) {
-      const worker = new Worker(new URL('../../src/worker/render-worker.ts', import.meta.url), { type: 'module', name: `glowtalk-margins-${i + 1}` });
-      const slot: Slot = { worker, busy: null };
-      worker.onmessage = (event: MessageEvent<JobReply>) => this.settle(slot, event.data);
+    this.queue = new JobQueue(size, (slot, id, job) => this.workers[slot].postMessage({ kind: 'job', id, job } satisfies JobRequest));
+    for (let slot = 0; slot < size; slot++) {
+      const worker = new Worker(new URL('../../src/worker/render-worker.ts', import.meta.url), { type: 'module', name: `glowtalk-margins-${slot + 1}` });
+      worker.onmessage = (event: MessageEvent<JobReply>) => {
+        const reply = event.data;
+        this.queue.settle(slot, reply.id, reply.kind === 'job-done' ? { ok: true, result: reply.result } : { ok: false, error: errorFromData(reply.error) });
+      };
       worker.onerror = (event) => {
         event.preventDefault();
         this.stop(new Error(`internal error in an analysis worker (please report it): ${event.message}`));
       };
-      this.slots.push(slot);
+      this.workers.push(worker);
     }
   }
 
   run(job: RenderJob): Promise<RenderJobResult> {
-    if (this.stopped) return Promise.reject(this.stopped);
-    return new Promise((resolve, reject) => {
-      this.queue.push({ id: this.nextId++, job, resolve, reject });
-      this.dispatch();
-    });
+    return this.queue.run(job);
   }
 
   /** Stops every worker; jobs waiting or running reject with PoolCancelled. */
@@ -71,33 +57,9 @@ export class BrowserPool implements JobRunner {
     this.stop(new Error('the analysis pool was closed before this job finished'));
   }
 
-  private dispatch(): void {
-    for (const slot of this.slots) {
-      if (slot.busy || this.queue.length === 0) continue;
-      const pending = this.queue.shift()!;
-      slot.busy = pending;
-      const request: JobRequest = { kind: 'job', id: pending.id, job: pending.job };
-      slot.worker.postMessage(request);
-    }
-  }
-
-  private settle(slot: Slot, reply: JobReply): void {
-    const pending = slot.busy;
-    if (!pending || pending.id !== reply.id) return;
-    slot.busy = null;
-    if (reply.kind === 'job-done') pending.resolve(reply.result);
-    else pending.reject(errorFromData(reply.error));
-    this.dispatch();
-  }
-
   private stop(error: Error): void {
-    if (this.stopped) return;
-    this.stopped = error;
-    for (const slot of this.slots) {
-      slot.worker.terminate();
-      slot.busy?.reject(error);
-      slot.busy = null;
-    }
-    for (const pending of this.queue.splice(0)) pending.reject(error);
+    if (this.queue.isStopped) return;
+    for (const worker of this.workers) worker.terminate();
+    this.queue.stop(error);
   }
 }
