@@ -5,6 +5,7 @@
  * The output is identical to renderScenario's. Node APIs: the command line's shell.
  */
 import { Worker, isMainThread, parentPort, workerData } from 'node:worker_threads';
+import { workerBootCode } from './node-boot.ts';
 import { assembleResult, receiverTiming, stageSettings, type RenderOptions, type RenderResult, type TransmitterFacts } from '../link/chain/chain.ts';
 import { ReceiverStage, type ReceiverTiming } from '../link/chain/receiver-stage.ts';
 import { isReceiverTap } from '../link/chain/taps.ts';
@@ -34,13 +35,6 @@ type StageMessage =
   | { type: 'done'; summary: TransmitterSummary }
   | { type: 'error'; error: ErrorData };
 
-function bootCode(): string {
-  const self = import.meta.url;
-  if (!/\.[cm]?ts$/.test(new URL(self).pathname)) return `import(${JSON.stringify(self)});`;
-  const tsx = import.meta.resolve('tsx/esm/api');
-  return `import(${JSON.stringify(tsx)}).then((api) => { api.register(); return import(${JSON.stringify(self)}); });`;
-}
-
 /** Like renderScenario, with the transmitter and the receiver on two threads. */
 export function renderPipelined(scenario: Scenario, options: RenderOptions = {}): Promise<RenderResult> {
   const startedMs = Date.now();
@@ -54,7 +48,7 @@ export function renderPipelined(scenario: Scenario, options: RenderOptions = {})
     chunkSamples: options.chunkSamples,
     streamTaps: options.onTap !== undefined,
   };
-  const worker = new Worker(bootCode(), { eval: true, workerData: request });
+  const worker = new Worker(workerBootCode(import.meta.url), { eval: true, workerData: request });
   return new Promise<RenderResult>((resolve, reject) => {
     let receiver: ReceiverStage | null = null;
     let facts: TransmitterFacts | null = null;

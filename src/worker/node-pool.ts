@@ -9,6 +9,7 @@
  */
 import { availableParallelism } from 'node:os';
 import { Worker, isMainThread, parentPort, workerData } from 'node:worker_threads';
+import { workerBootCode } from './node-boot.ts';
 import { JobQueue } from './job-queue.ts';
 import { errorFromData, errorToData, runRenderJob, type ErrorData, type JobRunner, type RenderJob, type RenderJobResult } from './jobs.ts';
 
@@ -25,14 +26,6 @@ export function defaultWorkerCount(): number {
   return Math.max(1, availableParallelism());
 }
 
-/** The code a worker starts with: register tsx when the source is TypeScript, then load this module. */
-function bootCode(): string {
-  const self = import.meta.url;
-  if (!/\.[cm]?ts$/.test(new URL(self).pathname)) return `import(${JSON.stringify(self)});`;
-  const tsx = import.meta.resolve('tsx/esm/api');
-  return `import(${JSON.stringify(tsx)}).then((api) => { api.register(); return import(${JSON.stringify(self)}); });`;
-}
-
 export class NodePool implements JobRunner {
   private readonly workers: Worker[] = [];
   private readonly queue: JobQueue;
@@ -40,7 +33,7 @@ export class NodePool implements JobRunner {
 
   constructor(readonly size: number) {
     if (!Number.isInteger(size) || size < 1) throw new RangeError(`NodePool size must be a whole number of at least 1, got ${size}`);
-    const code = bootCode();
+    const code = workerBootCode(import.meta.url);
     this.queue = new JobQueue(size, (slot, id, job) => this.workers[slot].postMessage({ id, job } satisfies Request));
     for (let slot = 0; slot < size; slot++) {
       const worker = new Worker(code, { eval: true, workerData: { role: ROLE } });
