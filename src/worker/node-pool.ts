@@ -1,11 +1,8 @@
 /**
  * A pool of Node worker threads that run render jobs (jobs.ts), for the
- * command line. The only file here that uses Node APIs: it is both the pool
- * (main thread) and the worker's entry (this same module loaded in a worker,
- * recognised by its workerData). Workers load TypeScript through tsx's ESM
- * API, registered inside the worker before this module is imported: passing
- * `--import tsx` in a worker's execArgv does not reach the worker's own entry
- * module on Node 20 (tried here: "Unknown file extension .ts").
+ * command line (a Node shell, like the other node-*.ts files here): it is both
+ * the pool (main thread) and the worker's entry (this same module loaded in a
+ * worker, recognised by its workerData; see node-boot.ts for how it loads).
  */
 import { availableParallelism } from 'node:os';
 import { Worker, isMainThread, parentPort, workerData } from 'node:worker_threads';
