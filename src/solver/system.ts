@@ -44,6 +44,7 @@ export class CircuitSystem {
   nodeShuntSiemens = 0;
   readonly iteration: IterationContext = { initialiseJunctions: false, limited: false };
 
+
   constructor(
     readonly circuit: Circuit,
     linearAlgebra: LinearAlgebra = 'sparse',
@@ -98,6 +99,7 @@ export class CircuitSystem {
     this.constantValues = new Float64Array(this.matrix.stampedSlots);
     this.stepRhs = new Float64Array(size + 1);
     this.rhs = new Float64Array(size + 1);
+
   }
 
   /** An unknown in words, for messages: "node out", "the current through V2". */
@@ -155,6 +157,19 @@ export class CircuitSystem {
     const context = this.iteration;
     context.limited = false;
     for (const d of this.nonlinearDevices) d.load(values, this.rhs, x, context);
+  }
+
+  /**
+   * The largest relative junction-current error, ½(Δv/nVT)², if the devices' last
+   * linearisation were used at x (Infinity if a device cannot tell).
+   */
+  linearisationError(x: Float64Array): number {
+    let worst = 0;
+    for (const d of this.nonlinearDevices) {
+      const e = d.linearisationError ? d.linearisationError(x) : Infinity;
+      if (e > worst) worst = e;
+    }
+    return worst;
   }
 
   /** Moves every device's history on after a converged step. */

@@ -1,6 +1,6 @@
 import { InputError } from '../../errors.ts';
 import type { Scenario } from '../../scenario/types.ts';
-import type { NewtonTolerances } from '../../solver/newton.ts';
+import { AUDIO_TOLERANCES, type NewtonTolerances } from '../../solver/newton.ts';
 import type { LinearAlgebra } from '../../solver/system.ts';
 import { ReceiverStage, type ReceiverSummary, type ReceiverTiming } from './receiver-stage.ts';
 import { buildReport, type RenderReport } from './report.ts';
@@ -78,7 +78,7 @@ export function renderScenario(scenario: Scenario, options: RenderOptions = {}):
 /** The settings both stages share, from the render options. */
 export function stageSettings(scenario: Scenario, options: RenderOptions): StageSettings {
   return {
-    solver: { method: scenario.method, linearAlgebra: options.solver?.linearAlgebra, tolerances: options.solver?.tolerances },
+    solver: { method: scenario.method, linearAlgebra: options.solver?.linearAlgebra, tolerances: options.solver?.tolerances ?? AUDIO_TOLERANCES },
     substeps: Math.max(1, Math.round(options.solver?.substeps ?? 1)),
     chunkSamples: options.chunkSamples ?? 1024,
     onTap: options.onTap,
