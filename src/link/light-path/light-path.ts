@@ -24,7 +24,7 @@ export type ChannelSettings =
   | ({ readonly kind: 'light-guide' } & LightGuideSettings);
 
 export interface DetectorSettings {
-  /** Amperes of photocurrent per watt of light (see responsivity.ts). */
+  /** Amperes of photocurrent per watt of light (the detector model's responsivity). */
   readonly responsivityAmperesPerWatt: number;
   /** Current that flows in the dark; it carries shot noise too. */
   readonly darkCurrentAmperes: number;
