@@ -123,7 +123,7 @@ export class Simulator {
     }
     system.beginStep(targetSeconds, 1);
     const trial = this.trial;
-    trial.set(x);
+    const n = system.size;
     if (this.predict && this.history >= 2) {
       // Quadratic extrapolation through the last three accepted points (Lagrange form).
       const h = stepSeconds;
@@ -134,12 +134,14 @@ export class Simulator {
       const c2 = (h * (h + h1)) / ((h1 + h2) * h2);
       const prev = this.previous;
       const older = this.older;
-      for (let i = 0; i < system.size; i++) trial[i] = c0 * x[i] + c1 * prev[i] + c2 * older[i];
+      for (let i = 0; i < n; i++) trial[i] = c0 * x[i] + c1 * prev[i] + c2 * older[i];
     } else if (this.predict && this.history >= 1) {
       // Linear extrapolation from the last two accepted points.
       const ratio = stepSeconds / this.lastStepSeconds;
       const prev = this.previous;
-      for (let i = 0; i < system.size; i++) trial[i] = x[i] + (x[i] - prev[i]) * ratio;
+      for (let i = 0; i < n; i++) trial[i] = x[i] + (x[i] - prev[i]) * ratio;
+    } else {
+      trial.set(x);
     }
     const outcome = this.newton.solve(trial, false, true);
     this.pendingStep = stepSeconds;
