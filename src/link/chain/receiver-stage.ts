@@ -5,9 +5,9 @@ import type { Scenario } from '../../scenario/types.ts';
 import { Simulator } from '../../solver/simulator.ts';
 import { Decimator } from '../oversampler.ts';
 import { withLightInputAndSpeaker } from './rewire.ts';
-import { TapCapture, resolveTap, type TapRecord } from './taps.ts';
-import type { StageSettings } from './transmitter-stage.ts';
-import { finishWatches, updateWatches, watchTransistors, type TransistorEpisodes, type TransistorWatch } from './transistor-watch.ts';
+import { TapCapture, resolveTap } from './taps.ts';
+import { stageFigures, type StageFigures, type StageSettings } from './transmitter-stage.ts';
+import { updateWatches, watchTransistors, type TransistorWatch } from './transistor-watch.ts';
 
 /** Where the receiver stage stands in the run (from the transmitter stage). */
 export interface ReceiverTiming {
@@ -21,15 +21,9 @@ export interface ReceiverTiming {
   restingLightDriveWatts: number;
 }
 
-export interface ReceiverSummary {
+export interface ReceiverSummary extends StageFigures {
   farEndRmsVolts: number;
   farEndPeakVolts: number;
-  transistors: TransistorEpisodes[];
-  steps: number;
-  newtonIterations: number;
-  subdividedSteps: number;
-  seconds: number;
-  taps: TapRecord[];
 }
 
 /**
@@ -39,6 +33,9 @@ export interface ReceiverSummary {
  */
 export class ReceiverStage {
   readonly taps: TapCapture[];
+  /** The taps that read the receiver circuit and the speaker (found once, not per chunk). */
+  private readonly circuitTaps: TapCapture[];
+  private readonly speakerTaps: TapCapture[];
   private readonly simulator: Simulator;
   private readonly drive: DriveSignal;
   private readonly speakerPlus: number;
@@ -90,6 +87,8 @@ export class ReceiverStage {
         settings.onTap,
       );
     });
+    this.circuitTaps = this.taps.filter((t) => t.source.stage === 'receiver');
+    this.speakerTaps = this.taps.filter((t) => t.source.stage === 'speaker');
     this.speaker = new Float64Array(settings.chunkSamples * timing.factor);
     this.farChunk = new Float64Array(settings.chunkSamples + 1);
   }
@@ -101,7 +100,7 @@ export class ReceiverStage {
     const hSub = 1 / (this.timing.sampleRateHertz * this.timing.factor) / substeps;
     const plus = this.speakerPlus;
     const minus = this.speakerMinus;
-    const circuitTaps = this.taps.filter((t) => t.source.stage === 'receiver');
+    const circuitTaps = this.circuitTaps;
     const clock = performance.now();
     let previous = this.previousLightWatts;
     for (let i = 0; i < m; i++) {
@@ -123,7 +122,7 @@ export class ReceiverStage {
     const produced = this.down.process(speaker.subarray(0, m), this.farChunk);
     const from = Math.max(0, -this.farWritten);
     const to = Math.min(produced, this.timing.totalSamples - this.farWritten);
-    const speakerTaps = this.taps.filter((t) => t.source.stage === 'speaker');
+    const speakerTaps = this.speakerTaps;
     for (let i = from; i < to; i++) {
       const v = this.farChunk[i];
       this.squares += v * v;
@@ -141,12 +140,7 @@ export class ReceiverStage {
     return {
       farEndRmsVolts: Math.sqrt(this.squares / Math.max(1, this.count)),
       farEndPeakVolts: this.peak,
-      transistors: finishWatches(this.watches),
-      steps: this.simulator.steps,
-      newtonIterations: this.simulator.newton.totalIterations,
-      subdividedSteps: this.simulator.subdividedSteps,
-      seconds: this.milliseconds / 1000,
-      taps: this.taps.map((t) => t.finish()),
+      ...stageFigures(this.simulator, this.watches, this.milliseconds, this.taps),
     };
   }
 }

@@ -25,14 +25,30 @@ export interface StageSettings {
   onTap?: (name: string, block: Float32Array) => void;
 }
 
-export interface TransmitterSummary {
-  led: { minimum: number; maximum: number; mean: number; cutoff: Episodes };
+/** What either stage reports of its circuit's solver and its taps. */
+export interface StageFigures {
   transistors: TransistorEpisodes[];
   steps: number;
   newtonIterations: number;
   subdividedSteps: number;
   seconds: number;
   taps: TapRecord[];
+}
+
+/** A stage's figures at the end of its run (ends open episodes, finishes the taps). */
+export function stageFigures(simulator: Simulator, watches: readonly TransistorWatch[], milliseconds: number, taps: readonly TapCapture[]): StageFigures {
+  return {
+    transistors: finishWatches(watches),
+    steps: simulator.steps,
+    newtonIterations: simulator.newton.totalIterations,
+    subdividedSteps: simulator.subdividedSteps,
+    seconds: milliseconds / 1000,
+    taps: taps.map((t) => t.finish()),
+  };
+}
+
+export interface TransmitterSummary extends StageFigures {
+  led: { minimum: number; maximum: number; mean: number; cutoff: Episodes };
 }
 
 /**
@@ -59,6 +75,8 @@ export class TransmitterStage {
   readonly restingLightDriveWatts: number;
   readonly channelGain: number;
   readonly taps: TapCapture[];
+  /** The taps that read the transmitter circuit (found once, not per chunk). */
+  private readonly circuitTaps: TapCapture[];
   private readonly simulator: Simulator;
   private readonly microphone: Microphone;
   private readonly up: Upsampler;
@@ -155,6 +173,7 @@ export class TransmitterStage {
       );
     });
 
+    this.circuitTaps = this.taps.filter((t) => t.source.stage === 'transmitter');
     const chunk = settings.chunkSamples;
     this.pascals = new Float64Array(chunk);
     this.micVolts = new Float64Array(chunk);
@@ -215,7 +234,7 @@ export class TransmitterStage {
     const hSub = 1 / this.internalRateHertz / substeps;
     const first = this.upLatencyInternal;
     const last = first + this.totalSamples * this.factor;
-    const circuitTaps = this.taps.filter((t) => t.source.stage === 'transmitter');
+    const circuitTaps = this.circuitTaps;
     // Hot loop: state in locals, written back at the end.
     let step = this.step;
     let previous = this.previousMicVolts;
@@ -263,12 +282,7 @@ export class TransmitterStage {
         mean: this.ledCount > 0 ? this.ledSum / this.ledCount : 0,
         cutoff: toEpisodes(this.ledCutoff),
       },
-      transistors: finishWatches(this.watches),
-      steps: this.simulator.steps,
-      newtonIterations: this.simulator.newton.totalIterations,
-      subdividedSteps: this.simulator.subdividedSteps,
-      seconds: this.milliseconds / 1000,
-      taps: this.taps.map((t) => t.finish()),
+      ...stageFigures(this.simulator, this.watches, this.milliseconds, this.taps),
     };
   }
 }
