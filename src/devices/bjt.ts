@@ -1,6 +1,7 @@
 import type { BjtModel, Drive, PhototransistorModel } from '../circuit/types.ts';
 import { thermalVoltage } from '../units/constants.ts';
 import type { Integrator } from '../solver/integrator.ts';
+import type { KernelPart } from '../solver/kernel/plan.ts';
 import { Capacitor } from './capacitor.ts';
 import { JUNCTION_GMIN_SIEMENS, type Binder, type IterationContext, type PinCurrents, type ThreeTerminal } from './device.ts';
 import { JunctionPoint, conductingVolts, criticalVolts, evaluateJunction, limitJunctionStep } from './junction.ts';
@@ -182,6 +183,40 @@ export class Bjt implements ThreeTerminal {
 
   breakpoints(stopSeconds: number): number[] {
     return this.light?.breakpoints(stopSeconds) ?? [];
+  }
+
+  kernelParts(): KernelPart[] {
+    return [
+      {
+        kind: 'bjt',
+        collector: this.c,
+        base: this.b,
+        emitter: this.e,
+        polarity: this.polarity,
+        saturationAmperes: this.saturationAmperes,
+        emissionVolts: this.emissionVolts,
+        criticalVolts: this.criticalVoltage,
+        inverseForwardBeta: this.inverseForwardBeta,
+        inverseReverseBeta: this.inverseReverseBeta,
+        inverseEarlyVolts: this.inverseEarlyVolts,
+        light: this.light,
+        responsivity: this.responsivity,
+        state: {
+          read: (into, at) => {
+            into[at] = this.vbe;
+            into[at + 1] = this.vbc;
+            into[at + 2] = this.photoAmperes;
+          },
+          write: (from, at) => {
+            this.vbe = from[at];
+            this.vbc = from[at + 1];
+            this.photoAmperes = from[at + 2];
+          },
+        },
+      },
+      ...(this.baseEmitter?.kernelParts() ?? []),
+      ...(this.baseCollector?.kernelParts() ?? []),
+    ];
   }
 
   /** NPN-frame junction voltages (vbe, vbc) at solution x. */

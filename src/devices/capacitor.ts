@@ -1,5 +1,6 @@
 import type { Integrator } from '../solver/integrator.ts';
 import { StateHistory } from '../solver/integrator.ts';
+import type { KernelPart } from '../solver/kernel/plan.ts';
 import type { Binder, TwoTerminal } from './device.ts';
 import { voltageAt } from './resistor.ts';
 
@@ -69,6 +70,31 @@ export class Capacitor implements TwoTerminal {
   }
   breakpoints(): number[] {
     return [];
+  }
+
+  kernelParts(): KernelPart[] {
+    const charge = this.charge;
+    return [
+      {
+        kind: 'capacitor',
+        a: this.a,
+        b: this.b,
+        farads: this.farads,
+        state: {
+          read: (into, at) => {
+            into[at] = charge.s1;
+            into[at + 1] = charge.s2;
+            into[at + 2] = charge.d1;
+          },
+          write: (from, at) => {
+            charge.s1 = from[at];
+            charge.s2 = from[at + 1];
+            charge.d1 = from[at + 2];
+            this.lastCurrentAmperes = from[at + 2];
+          },
+        },
+      },
+    ];
   }
 
   current(): number {

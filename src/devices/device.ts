@@ -11,6 +11,7 @@
  * and g·v0 − I0 in the right-hand side.
  */
 import type { Integrator } from '../solver/integrator.ts';
+import type { KernelPart } from '../solver/kernel/plan.ts';
 
 /** Hands out unknowns and matrix slots while the system is set up. */
 export interface Binder {
@@ -61,6 +62,12 @@ export interface Device {
   lastJunctionChange(): number;
   /** Times where the device's drive has a corner, within (0, stopSeconds]. */
   breakpoints(stopSeconds: number): number[];
+  /**
+   * The device as the step-kernel generator sees it (linear conductances need no part:
+   * they are in the constant matrix). A device without this method keeps its circuit
+   * on the general step loop.
+   */
+  kernelParts?(): KernelPart[];
 }
 
 /** A two-terminal part: current into pins[0] through the part, in amperes. */

@@ -1,6 +1,7 @@
 import type { DiodeModel, LedModel } from '../circuit/types.ts';
 import { photonEnergyVolts, thermalVoltage } from '../units/constants.ts';
 import type { Integrator } from '../solver/integrator.ts';
+import type { KernelPart } from '../solver/kernel/plan.ts';
 import { Capacitor } from './capacitor.ts';
 import { JUNCTION_GMIN_SIEMENS, type Binder, type IterationContext, type TwoTerminal } from './device.ts';
 import { JunctionPoint, criticalVolts, evaluateJunction, limitJunctionStep } from './junction.ts';
@@ -109,6 +110,28 @@ export class Diode implements TwoTerminal {
 
   breakpoints(): number[] {
     return [];
+  }
+
+  kernelParts(): KernelPart[] {
+    return [
+      {
+        kind: 'diode',
+        junction: this.junction,
+        cathode: this.cathode,
+        saturationAmperes: this.saturationAmperes,
+        emissionVolts: this.emissionVolts,
+        criticalVolts: this.criticalVoltage,
+        state: {
+          read: (into, at) => {
+            into[at] = this.junctionVolts;
+          },
+          write: (from, at) => {
+            this.junctionVolts = from[at];
+          },
+        },
+      },
+      ...(this.capacitance?.kernelParts() ?? []),
+    ];
   }
 
   /** Current through the junction alone (no capacitance), in amperes. */

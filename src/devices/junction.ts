@@ -4,10 +4,10 @@
  */
 
 /** Above this exponent the exponential continues as a straight line (no overflow, still monotonic). */
-const EXPONENT_LIMIT = 80;
+export const EXPONENT_LIMIT = 80;
 const EXP_AT_LIMIT = Math.exp(EXPONENT_LIMIT);
 /** Below this exponent exp() is under 5e-18 of Is: treat the junction as fully reverse-biased. */
-const EXPONENT_FLOOR = -40;
+export const EXPONENT_FLOOR = -40;
 
 /** Result slots, reused so evaluation allocates nothing. */
 export class JunctionPoint {

@@ -1,3 +1,4 @@
+import type { KernelPart } from '../solver/kernel/plan.ts';
 import type { Binder, TwoTerminal } from './device.ts';
 
 /** Ohm's law between pins a and b. */
@@ -47,6 +48,9 @@ export class Resistor implements TwoTerminal {
     return 0;
   }
   breakpoints(): number[] {
+    return [];
+  }
+  kernelParts(): KernelPart[] {
     return [];
   }
 

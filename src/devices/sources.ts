@@ -1,5 +1,6 @@
 import type { Drive } from '../circuit/types.ts';
 import type { Integrator } from '../solver/integrator.ts';
+import type { KernelPart } from '../solver/kernel/plan.ts';
 import type { Binder, TwoTerminal } from './device.ts';
 import { DriveSignal } from './wave.ts';
 
@@ -49,6 +50,9 @@ export class VoltageSource implements TwoTerminal {
   }
   breakpoints(stopSeconds: number): number[] {
     return this.drive.breakpoints(stopSeconds);
+  }
+  kernelParts(): KernelPart[] {
+    return [{ kind: 'voltage-source', branch: this.j, drive: this.drive }];
   }
 
   /** Current into the plus pin through the source (negative when it delivers power). */

@@ -21,6 +21,16 @@ export class DriveSignal {
     this.pointValues = Float64Array.from(points, (p) => p[1]);
   }
 
+  /** The constant part of the drive. */
+  get dcValue(): number {
+    return this.dc;
+  }
+
+  /** A drive with no wave: its value never changes. */
+  get isConstant(): boolean {
+    return this.wave === undefined;
+  }
+
   get isUpstream(): boolean {
     return this.wave?.shape === 'upstream';
   }

@@ -29,6 +29,9 @@ export const DEFAULT_TOLERANCES: NewtonTolerances = { relative: 1e-6, volts: 1e-
 export const AUDIO_TOLERANCES: NewtonTolerances = { ...DEFAULT_TOLERANCES, quadraticAcceptance: 1e-6 };
 export const TIGHT_TOLERANCES: NewtonTolerances = { relative: 1e-10, volts: 1e-12, amperes: 1e-16, maxIterations: 200, quadraticAcceptance: 0 };
 
+/** A step that took more iterations than this switches the predictor off for the next one. */
+export const HARD_STEP_ITERATIONS = 5;
+
 export interface NewtonOutcome {
   converged: boolean;
   iterations: number;

@@ -3,8 +3,14 @@ import { Bjt } from '../devices/bjt.ts';
 import type { Device, PinCurrents, TwoTerminal } from '../devices/device.ts';
 import type { Simulator } from './simulator.ts';
 
-/** Reads one value from the simulator's current solution. */
-export type Probe = (x: Float64Array) => number;
+/**
+ * Reads one value from the simulator's current solution. A probe that also reads state
+ * kept inside a device (a capacitance's current) is marked `readsDeviceState`: it must be
+ * read right after its own step, not from a stored solution later.
+ */
+export type Probe = ((x: Float64Array) => number) & { readsDeviceState?: boolean };
+
+const fromDevice = (probe: (x: Float64Array) => number): Probe => Object.assign(probe, { readsDeviceState: true });
 
 const PIN_NAMES = ['collector', 'base', 'emitter'] as const satisfies readonly (keyof PinCurrents)[];
 
@@ -27,7 +33,7 @@ export function resolveProbe(simulator: Simulator, name: string, where = 'probe'
     const pin = name.slice(dot + 1);
     if (device instanceof Bjt && (PIN_NAMES as readonly string[]).includes(pin)) {
       const key = pin as keyof PinCurrents;
-      return (x) => device.pinCurrents(x)[key];
+      return fromDevice((x) => device.pinCurrents(x)[key]);
     }
     if (device instanceof Bjt) throw new InputError(where, `a pin of ${device.ref}: ${PIN_NAMES.join(', ')}`, `got "${pin}"`);
   }
@@ -35,7 +41,7 @@ export function resolveProbe(simulator: Simulator, name: string, where = 'probe'
   if (device instanceof Bjt) {
     throw new InputError(where, `a pin current such as ${name}.collector, ${name}.base or ${name}.emitter`, `"${name}" is a transistor`);
   }
-  if (device && isTwoTerminal(device)) return (x) => device.current(x);
+  if (device && isTwoTerminal(device)) return fromDevice((x) => device.current(x));
   const nodes = nodeNames(simulator);
   throw new InputError(
     where,

@@ -1,21 +1,28 @@
 import type { Circuit } from '../circuit/types.ts';
 import { ConvergenceError } from '../errors.ts';
 import type { IntegrationMethod } from './integrator.ts';
-import { DEFAULT_TOLERANCES, Newton, type NewtonTolerances } from './newton.ts';
+import { DEFAULT_TOLERANCES, HARD_STEP_ITERATIONS, Newton, type NewtonTolerances } from './newton.ts';
 import { solveOperatingPoint, type OperatingPointMethod } from './operating-point.ts';
 import { CircuitSystem, type LinearAlgebra } from './system.ts';
+import type { DriveSignal } from '../devices/wave.ts';
+import { StepKernel } from './kernel/step-kernel.ts';
+import { SparseLu } from './sparse-lu.ts';
 
 export interface SimulatorOptions {
   /** Integration rule after the first (backward-Euler) step: 'tr' (trapezoidal) or 'bdf2'. */
   method?: Extract<IntegrationMethod, 'tr' | 'bdf2'>;
   tolerances?: NewtonTolerances;
   linearAlgebra?: LinearAlgebra;
+  /**
+   * `runBlock` takes its trapezoidal steps in a kernel generated for the circuit where the
+   * circuit allows (default true; needs the 'sparse' linear algebra). False keeps every step
+   * on the general loop.
+   */
+  generatedSteps?: boolean;
 }
 
 /** How many times a fixed step may be halved to get through a hard spot. */
 const MAX_SUBDIVISIONS = 12;
-/** A step that took more iterations than this switches the predictor off for the next one. */
-const HARD_STEP_ITERATIONS = 5;
 
 /**
  * A circuit being simulated: DC operating point, then time steps. Keeps the
@@ -44,11 +51,19 @@ export class Simulator {
   /** Accepted steps and subdivided steps since construction (for the benchmark). */
   steps = 0;
   subdividedSteps = 0;
+  /** Steps taken by the generated kernel (for the benchmark and the tests). */
+  generatedSteps = 0;
+  private readonly allowKernel: boolean;
+  /** The generated kernel last used by `runBlock` (null: none yet, or the circuit has none). */
+  kernel: StepKernel | null = null;
+  /** The (step, drive, ordering) for which generation was refused, so it is not retried every step. */
+  private refused: { stepSeconds: number; input: DriveSignal; ordering: number } | null = null;
 
   constructor(circuit: Circuit, options: SimulatorOptions = {}) {
     this.system = new CircuitSystem(circuit, options.linearAlgebra ?? 'sparse');
     this.newton = new Newton(this.system, options.tolerances ?? DEFAULT_TOLERANCES);
     this.method = options.method ?? 'tr';
+    this.allowKernel = (options.generatedSteps ?? true) && (options.linearAlgebra ?? 'sparse') === 'sparse';
     this.x = new Float64Array(this.system.size + 1);
     this.previous = new Float64Array(this.system.size + 1);
     this.older = new Float64Array(this.system.size + 1);
@@ -169,6 +184,77 @@ export class Simulator {
     this.predict = this.newton.outcome.iterations <= HARD_STEP_ITERATIONS;
     if (!this.predict) this.history = 0;
     this.steps++;
+  }
+
+  /**
+   * Takes steps `from` to `to` of `stepSeconds`, step k with the upstream `drive` at
+   * `inputs[k]` (as `drive.upstreamValue`) and ending at (firstStep + k)·stepSeconds; writes
+   * each accepted solution to row k of `solutions` (`system.size` values per row). Runs of
+   * plain trapezoidal steps go through the generated kernel; start-ups, hard spots and
+   * anything the kernel cannot take go through `step`.
+   */
+  runBlock(stepSeconds: number, drive: DriveSignal, inputs: Float64Array, from: number, to: number, firstStep: number, solutions: Float64Array): void {
+    const n = this.system.size;
+    const count = to;
+    let i = from;
+    while (i < count) {
+      const kernel = this.readyKernel(stepSeconds, drive);
+      if (kernel) {
+        i = this.runKernel(kernel, inputs, i, count, firstStep, solutions);
+        if (i >= count) break;
+      }
+      drive.upstreamValue = inputs[i];
+      this.step(stepSeconds, (firstStep + i) * stepSeconds);
+      solutions.set(this.x.subarray(0, n), i * n);
+      i++;
+    }
+    if (to > from) drive.upstreamValue = inputs[to - 1];
+  }
+
+  /** The kernel for this step and drive if the next step is a plain trapezoidal one, else null. */
+  private readyKernel(stepSeconds: number, drive: DriveSignal): StepKernel | null {
+    if (!this.allowKernel || this.restart || this.method !== 'tr' || this.lastStepSeconds !== stepSeconds) return null;
+    const integrator = this.system.integrator;
+    if (integrator.method !== 'tr' || integrator.stepSeconds !== stepSeconds) return null;
+    const matrix = this.system.matrix;
+    if (!(matrix instanceof SparseLu)) return null;
+    const ordering = matrix.orderings;
+    const k = this.kernel;
+    if (k && k.stepSeconds === stepSeconds && k.input === drive && k.ordering === ordering) return k;
+    const r = this.refused;
+    if (r && r.stepSeconds === stepSeconds && r.input === drive && r.ordering === ordering) return null;
+    this.kernel = StepKernel.compile(this.system, drive, stepSeconds, this.newton.tolerances);
+    if (!this.kernel) this.refused = { stepSeconds, input: drive, ordering };
+    return this.kernel;
+  }
+
+  /** Runs the kernel from step `from`; returns the first step it did not take. */
+  private runKernel(kernel: StepKernel, inputs: Float64Array, from: number, to: number, firstStep: number, solutions: Float64Array): number {
+    const n = this.system.size;
+    const s = kernel.state;
+    const layout = kernel.layout;
+    s.set(this.x.subarray(0, n), layout.solution);
+    s.set(this.previous.subarray(0, n), layout.previous);
+    s.set(this.older.subarray(0, n), layout.older);
+    // The kernel extrapolates over equal steps only.
+    s[layout.history] = this.olderStepSeconds === kernel.stepSeconds ? this.history : Math.min(this.history, 1);
+    s[layout.predict] = this.predict ? 1 : 0;
+    s[layout.iterations] = 0;
+    kernel.loadParts();
+    const done = kernel.run(s, inputs, from, to, solutions);
+    kernel.storeParts();
+    this.newton.totalIterations += s[layout.iterations];
+    if (done === from) return done;
+    this.x.set(s.subarray(layout.solution, layout.solution + n));
+    this.previous.set(s.subarray(layout.previous, layout.previous + n));
+    this.older.set(s.subarray(layout.older, layout.older + n));
+    this.history = s[layout.history];
+    this.predict = s[layout.predict] === 1;
+    this.olderStepSeconds = this.lastStepSeconds = kernel.stepSeconds;
+    this.timeSeconds = (firstStep + done - 1) * kernel.stepSeconds;
+    this.steps += done - from;
+    this.generatedSteps += done - from;
+    return done;
   }
 
   private fail(seconds: number): never {

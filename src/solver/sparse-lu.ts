@@ -40,6 +40,11 @@ export class SparseLu extends SlotMatrix {
     super(size);
   }
 
+  /** An elimination order has been chosen (by the first factor). */
+  get isOrdered(): boolean {
+    return this.ordered;
+  }
+
   /** Relative pivot threshold (fraction of the largest entry below it in its column). */
   static readonly PIVOT_THRESHOLD = 1e-3;
 

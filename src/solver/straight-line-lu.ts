@@ -4,6 +4,8 @@
  * multiply-adds with no index arrays to chase. The code is built only from
  * integers of the program and the pivot threshold, never from user text.
  */
+import { int } from './kernel/literals.ts';
+
 export interface EliminationProgram {
   size: number;
   pivotRow: Int32Array;
@@ -25,10 +27,6 @@ export interface StraightLineLu {
   solve: (v: Float64Array, b: Float64Array, x: Float64Array) => void;
 }
 
-const int = (n: number): string => {
-  if (!Number.isInteger(n)) throw new Error(`generated code takes integers only, got ${n}`);
-  return String(n);
-};
 
 export function generateStraightLineLu(program: EliminationProgram, pivotThreshold: number): StraightLineLu {
   const [v, b, x, fail] = ['v', 'b', 'x', 'return false;'];

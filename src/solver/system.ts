@@ -117,6 +117,11 @@ export class CircuitSystem {
     return i >= 0 && i < this.nodeCount ? i : undefined;
   }
 
+  /** Matrix entries fixed for the current integrator coefficients, by slot (read only). */
+  get constantMatrix(): Float64Array {
+    return this.constantValues;
+  }
+
   /** Re-stamps the parts of the matrix fixed for the current integrator coefficients. */
   stampConstants(): void {
     const m = this.constantValues;

@@ -31,6 +31,8 @@ export interface RenderOptions {
     tolerances?: NewtonTolerances;
     /** Integration steps per internal sample (1 = one step per sample). */
     substeps?: number;
+    /** False: every step on the general loop, none in the generated kernels (for comparisons). */
+    generatedSteps?: boolean;
   };
 }
 
@@ -78,7 +80,12 @@ export function renderScenario(scenario: Scenario, options: RenderOptions = {}):
 /** The settings both stages share, from the render options. */
 export function stageSettings(scenario: Scenario, options: RenderOptions): StageSettings {
   return {
-    solver: { method: scenario.method, linearAlgebra: options.solver?.linearAlgebra, tolerances: options.solver?.tolerances ?? AUDIO_TOLERANCES },
+    solver: {
+      method: scenario.method,
+      linearAlgebra: options.solver?.linearAlgebra,
+      tolerances: options.solver?.tolerances ?? AUDIO_TOLERANCES,
+      generatedSteps: options.solver?.generatedSteps,
+    },
     substeps: Math.max(1, Math.round(options.solver?.substeps ?? 1)),
     chunkSamples: options.chunkSamples ?? 1024,
     onTap: options.onTap,
@@ -147,6 +154,7 @@ export function assembleResult(
       receiverSteps: rx.steps,
       newtonIterations: tx.newtonIterations + rx.newtonIterations,
       subdividedSteps: tx.subdividedSteps + rx.subdividedSteps,
+      generatedSteps: tx.generatedSteps + rx.generatedSteps,
       wallSeconds: (Date.now() - startedMs) / 1000,
       transmitterSeconds: tx.seconds,
       receiverSeconds: rx.seconds,

@@ -35,6 +35,7 @@ export class ReceiverStage {
   readonly taps: TapCapture[];
   /** The taps that read the receiver circuit and the speaker (found once, not per chunk). */
   private readonly circuitTaps: TapCapture[];
+  private readonly tapsReadDevices: boolean;
   private readonly speakerTaps: TapCapture[];
   private readonly simulator: Simulator;
   private readonly drive: DriveSignal;
@@ -44,6 +45,10 @@ export class ReceiverStage {
   private readonly watches: TransistorWatch[];
   private readonly speaker: Float64Array;
   private readonly farChunk: Float64Array;
+  /** The light of one chunk's steps, and the solutions they produce. */
+  private readonly stepInputs: Float64Array;
+  private readonly solutions: Float64Array;
+  private readonly x: Float64Array;
   private previousLightWatts: number;
   private index = 0;
   private farWritten: number;
@@ -88,14 +93,20 @@ export class ReceiverStage {
       );
     });
     this.circuitTaps = this.taps.filter((t) => t.source.stage === 'receiver');
+    this.tapsReadDevices = this.circuitTaps.some((t) => 'probe' in t.source && t.source.probe.readsDeviceState === true);
     this.speakerTaps = this.taps.filter((t) => t.source.stage === 'speaker');
     this.speaker = new Float64Array(settings.chunkSamples * timing.factor);
     this.farChunk = new Float64Array(settings.chunkSamples + 1);
+    const size = this.simulator.system.size;
+    this.stepInputs = new Float64Array(settings.chunkSamples * timing.factor * settings.substeps);
+    this.solutions = new Float64Array(settings.chunkSamples * timing.factor * settings.substeps * size);
+    this.x = new Float64Array(size + 1);
   }
 
   /** Steps the receiver through `m` internal samples of light (watts). */
   process(light: Float64Array, m: number): void {
-    const { simulator, drive, speaker, watches } = this;
+    const { simulator, drive, speaker, watches, stepInputs, solutions, x } = this;
+    const size = simulator.system.size;
     const substeps = this.settings.substeps;
     const hSub = 1 / (this.timing.sampleRateHertz * this.timing.factor) / substeps;
     const plus = this.speakerPlus;
@@ -104,14 +115,18 @@ export class ReceiverStage {
     const clock = performance.now();
     let previous = this.previousLightWatts;
     for (let i = 0; i < m; i++) {
-      const index = this.index++;
       const watts = light[i];
-      for (let k = substeps - 1; k >= 0; k--) {
-        drive.upstreamValue = watts - (k / substeps) * (watts - previous);
-        simulator.step(hSub, ((index + 1) * substeps - k) * hSub);
-      }
+      for (let k = substeps - 1; k >= 0; k--) stepInputs[i * substeps + substeps - 1 - k] = watts - (k / substeps) * (watts - previous);
       previous = watts;
-      const x = simulator.x;
+    }
+    const first = this.index * substeps + 1;
+    // A tap that reads a device's own state must see it right after its step: then one sample at a time.
+    const run = this.tapsReadDevices ? 1 : m;
+    for (let i = 0; i < m; i++) {
+      if (i % run === 0) simulator.runBlock(hSub, drive, stepInputs, i * substeps, Math.min(m, i + run) * substeps, first, solutions);
+      const index = this.index++;
+      const row = (i * substeps + substeps - 1) * size;
+      for (let k = 0; k < size; k++) x[k] = solutions[row + k];
       speaker[i] = (plus < 0 ? 0 : x[plus]) - (minus < 0 ? 0 : x[minus]);
       updateWatches(watches, index, x);
       for (const tap of circuitTaps) tap.push((tap.source as { probe: (x: Float64Array) => number }).probe(x));

@@ -43,6 +43,8 @@ export interface RenderReport {
     receiverSteps: number;
     newtonIterations: number;
     subdividedSteps: number;
+    /** Steps taken by the circuits' generated kernels (the rest took the general loop). */
+    generatedSteps: number;
     wallSeconds: number;
     /** Time spent stepping each circuit (its statistics and taps included), seconds. */
     transmitterSeconds: number;

@@ -1,3 +1,4 @@
+import { Diode } from '../../devices/diode.ts';
 import { InputError } from '../../errors.ts';
 import { resolveProbe, type Probe } from '../../solver/probes.ts';
 import type { Simulator } from '../../solver/simulator.ts';
@@ -90,7 +91,8 @@ export class TapCapture {
 /**
  * Resolves a tap name: `source.pascals`, `microphone.volts`, `light.emitterWatts`,
  * `light.detectorWatts`, `speaker.volts`, or `transmitter.X` / `receiver.X` with X a
- * node, a part ref or REF.PIN of that circuit (`transmitter.led` is the signal LED's current).
+ * node, a part ref or REF.PIN of that circuit (`transmitter.led` is the signal LED's junction
+ * current, the one that makes light).
  */
 export function resolveTap(
   name: string,
@@ -102,10 +104,12 @@ export function resolveTap(
   const dot = name.indexOf('.');
   const stage = name.slice(0, dot);
   if (dot > 0 && (stage === 'transmitter' || stage === 'receiver')) {
-    let inner = name.slice(dot + 1);
-    if (stage === 'transmitter' && inner === 'led') inner = circuits.ledRef;
+    const inner = name.slice(dot + 1);
     const simulator = circuits[stage];
     if (!simulator) throw new Error(`tap ${name} resolved on the wrong side of the link`);
+    const led = stage === 'transmitter' && inner === 'led' ? simulator.system.devicesByRef.get(circuits.ledRef) : undefined;
+    // The junction current, which makes the light (the LED part's own current adds its capacitance's).
+    if (led instanceof Diode) return { source: { stage, probe: (x) => led.junctionCurrent(x) }, unit: 'A', internalRate: true };
     const probe = resolveProbe(simulator, inner, where);
     const isNode = simulator.system.nodeIndex(inner) !== undefined;
     return { source: { stage, probe }, unit: isNode ? 'V' : 'A', internalRate: true };

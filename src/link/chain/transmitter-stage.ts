@@ -31,6 +31,7 @@ export interface StageFigures {
   steps: number;
   newtonIterations: number;
   subdividedSteps: number;
+  generatedSteps: number;
   seconds: number;
   taps: TapRecord[];
 }
@@ -42,6 +43,7 @@ export function stageFigures(simulator: Simulator, watches: readonly TransistorW
     steps: simulator.steps,
     newtonIterations: simulator.newton.totalIterations,
     subdividedSteps: simulator.subdividedSteps,
+    generatedSteps: simulator.generatedSteps,
     seconds: milliseconds / 1000,
     taps: taps.map((t) => t.finish()),
   };
@@ -77,6 +79,7 @@ export class TransmitterStage {
   readonly taps: TapCapture[];
   /** The taps that read the transmitter circuit (found once, not per chunk). */
   private readonly circuitTaps: TapCapture[];
+  private readonly tapsReadDevices: boolean;
   private readonly simulator: Simulator;
   private readonly microphone: Microphone;
   private readonly up: Upsampler;
@@ -93,6 +96,10 @@ export class TransmitterStage {
   private readonly emitterWatts: Float64Array;
   private readonly detectorWatts: Float64Array;
   private readonly photoAmperes: Float64Array;
+  /** The drive values of one chunk's steps, and the solutions they produce. */
+  private readonly stepInputs: Float64Array;
+  private readonly solutions: Float64Array;
+  private readonly x: Float64Array;
   private position = 0;
   private step = 0;
   private previousMicVolts = 0;
@@ -174,6 +181,7 @@ export class TransmitterStage {
     });
 
     this.circuitTaps = this.taps.filter((t) => t.source.stage === 'transmitter');
+    this.tapsReadDevices = this.circuitTaps.some((t) => 'probe' in t.source && t.source.probe.readsDeviceState === true);
     const chunk = settings.chunkSamples;
     this.pascals = new Float64Array(chunk);
     this.micVolts = new Float64Array(chunk);
@@ -181,6 +189,10 @@ export class TransmitterStage {
     this.emitterWatts = new Float64Array(chunk * this.factor);
     this.detectorWatts = new Float64Array(chunk * this.factor);
     this.photoAmperes = new Float64Array(chunk * this.factor);
+    const size = this.simulator.system.size;
+    this.stepInputs = new Float64Array(chunk * this.factor * settings.substeps);
+    this.solutions = new Float64Array(chunk * this.factor * settings.substeps * size);
+    this.x = new Float64Array(size + 1);
   }
 
   /** Audio samples fed so far, out of `totalSamples + latencySamples`. */
@@ -229,11 +241,12 @@ export class TransmitterStage {
   }
 
   private runCircuit(m: number): void {
-    const { simulator, drive, led, internal, watches, emitterWatts, ledCutoff, cutoffAmperes } = this;
+    const { simulator, drive, led, internal, watches, emitterWatts, ledCutoff, cutoffAmperes, stepInputs, solutions, x } = this;
     const substeps = this.settings.substeps;
     const hSub = 1 / this.internalRateHertz / substeps;
-    const first = this.upLatencyInternal;
-    const last = first + this.totalSamples * this.factor;
+    const size = simulator.system.size;
+    const firstKept = this.upLatencyInternal;
+    const lastKept = firstKept + this.totalSamples * this.factor;
     const circuitTaps = this.circuitTaps;
     // Hot loop: state in locals, written back at the end.
     let step = this.step;
@@ -243,20 +256,24 @@ export class TransmitterStage {
     let ledSum = this.ledSum;
     let ledCount = this.ledCount;
     for (let i = 0; i < m; i++) {
-      step++;
       const volts = internal[i];
       // Substeps see the input interpolated linearly, as the trapezoidal rule assumes between samples.
-      for (let k = substeps - 1; k >= 0; k--) {
-        drive.upstreamValue = volts - (k / substeps) * (volts - previous);
-        simulator.step(hSub, (step * substeps - k) * hSub);
-      }
+      for (let k = substeps - 1; k >= 0; k--) stepInputs[i * substeps + substeps - 1 - k] = volts - (k / substeps) * (volts - previous);
       previous = volts;
-      const x = simulator.x;
+    }
+    const first = step * substeps + 1;
+    // A tap that reads a device's own state must see it right after its step: then one sample at a time.
+    const run = this.tapsReadDevices ? 1 : m;
+    for (let i = 0; i < m; i++) {
+      if (i % run === 0) simulator.runBlock(hSub, drive, stepInputs, i * substeps, Math.min(m, i + run) * substeps, first, solutions);
+      step++;
+      const row = (i * substeps + substeps - 1) * size;
+      for (let k = 0; k < size; k++) x[k] = solutions[row + k];
       const amperes = led.junctionCurrent(x);
       emitterWatts[i] = amperes > 0 ? amperes * led.wattsPerAmpere : 0;
       const index = step - 1;
       ledCutoff.update(index, amperes < cutoffAmperes);
-      if (index >= first && index < last) {
+      if (index >= firstKept && index < lastKept) {
         if (amperes < ledMin) ledMin = amperes;
         if (amperes > ledMax) ledMax = amperes;
         ledSum += amperes;

@@ -1,0 +1,38 @@
+import { EXPONENT_FLOOR, EXPONENT_LIMIT } from '../../devices/junction.ts';
+import { literal } from './literals.ts';
+import type { JunctionParameters } from './plan.ts';
+
+/**
+ * Code that evaluates a junction's current `amperes` and conductance `siemens`
+ * (declared as consts) at voltage variable `volts`, as `evaluateJunction` does:
+ * straight-line continuation above the exponent limit, and no exponential at all
+ * for a strongly reverse-biased junction.
+ */
+export function junctionCode(volts: string, amperes: string, siemens: string, j: JunctionParameters): string {
+  const is = literal(j.saturationAmperes);
+  const nvt = literal(j.emissionVolts);
+  const expAtLimit = Math.exp(EXPONENT_LIMIT);
+  return [
+    `let ${amperes} = ${literal(-j.saturationAmperes)}, ${siemens} = 0;`,
+    `{ const x = ${volts} / ${nvt};`,
+    `if (x > ${EXPONENT_LIMIT}) { ${amperes} = ${is} * (${literal(expAtLimit)} * (1 + x - ${EXPONENT_LIMIT}) - 1); ${siemens} = ${literal(j.saturationAmperes * expAtLimit)} / ${nvt}; }`,
+    `else if (x >= ${EXPONENT_FLOOR}) { const e = Math.exp(x); ${amperes} = ${is} * (e - 1); ${siemens} = (${is} * e) / ${nvt}; } }`,
+  ].join('\n');
+}
+
+/**
+ * Code that limits the Newton update of junction voltage variable `volts` against
+ * the previous linearisation point `previous`, as `limitJunctionStep` does
+ * (Nagel 1975), setting `limited` when it changes the step.
+ */
+export function limitCode(volts: string, previous: string, j: JunctionParameters): string {
+  const nvt = literal(j.emissionVolts);
+  const critical = literal(j.criticalVolts);
+  return [
+    `if (${volts} > ${critical} && Math.abs(${volts} - ${previous}) > ${literal(2 * j.emissionVolts)}) {`,
+    'limited = true;',
+    `if (${previous} > 0) { const arg = 1 + (${volts} - ${previous}) / ${nvt}; ${volts} = arg > 0 ? ${previous} + ${nvt} * Math.log(arg) : ${critical}; }`,
+    `else ${volts} = ${nvt} * Math.log(${volts} / ${nvt});`,
+    '}',
+  ].join('\n');
+}

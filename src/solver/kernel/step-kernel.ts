@@ -1,0 +1,86 @@
+import type { DriveSignal } from '../../devices/wave.ts';
+import type { NewtonTolerances } from '../newton.ts';
+import { SparseLu } from '../sparse-lu.ts';
+import type { CircuitSystem } from '../system.ts';
+import { KernelUnsupported, generateStepKernel, type KernelLayout, type KernelRun } from './generate.ts';
+import type { KernelPart } from './plan.ts';
+
+/**
+ * One circuit's generated trapezoidal step for one step size, input drive and
+ * elimination order, with its state array. The simulator copies its state in
+ * before a run and out after it, so the kernel and the general step loop can
+ * take turns step by step.
+ */
+export class StepKernel {
+  readonly state: Float64Array;
+  private readonly parts: KernelPart[];
+
+  private constructor(
+    readonly stepSeconds: number,
+    readonly input: DriveSignal,
+    /** The elimination order it was generated for (`SparseLu.orderings`). */
+    readonly ordering: number,
+    readonly layout: KernelLayout,
+    readonly run: KernelRun,
+    /** The generated source (for tests and for reading). */
+    readonly code: string,
+    parts: KernelPart[],
+  ) {
+    this.state = new Float64Array(layout.length);
+    this.parts = parts;
+  }
+
+  /**
+   * Generates the kernel for the system as it stands: the integrator set to the trapezoidal
+   * rule at `stepSeconds` and the constants stamped, the sparse matrix ordered. Null when
+   * the circuit has a part the generator does not know or a source with a wave of its own.
+   */
+  static compile(system: CircuitSystem, input: DriveSignal, stepSeconds: number, tolerances: NewtonTolerances): StepKernel | null {
+    const matrix = system.matrix;
+    if (!(matrix instanceof SparseLu) || !matrix.isOrdered) return null;
+    const parts: KernelPart[] = [];
+    for (const device of system.devices) {
+      if (!device.kernelParts) return null;
+      parts.push(...device.kernelParts());
+    }
+    try {
+      const { run, layout, code } = generateStepKernel({
+        size: system.size,
+        nodeCount: system.nodeCount,
+        stepSeconds,
+        constantValues: system.constantMatrix,
+        slotCount: matrix.values.length,
+        slotOf: (row, col) => matrix.slot(row, col),
+        program: matrix,
+        pivotThreshold: SparseLu.PIVOT_THRESHOLD,
+        parts,
+        input,
+        tolerances,
+      });
+      return new StepKernel(stepSeconds, input, matrix.orderings, layout, run, code, parts);
+    } catch (error) {
+      if (error instanceof KernelUnsupported) return null;
+      throw error;
+    }
+  }
+
+  /** Copies the devices' state in (the solution arrays are the caller's). */
+  loadParts(): void {
+    const { state, parts } = this;
+    const at = this.layout.partState;
+    for (let i = 0; i < parts.length; i++) {
+      const part = parts[i];
+      if (part.kind !== 'voltage-source') part.state.read(state, at[i]);
+    }
+  }
+
+  /** Copies the devices' state out after a run. */
+  storeParts(): void {
+    const { state, parts } = this;
+    const at = this.layout.partState;
+    for (let i = 0; i < parts.length; i++) {
+      const part = parts[i];
+      if (part.kind !== 'voltage-source') part.state.write(state, at[i]);
+    }
+  }
+}
