@@ -241,7 +241,7 @@ export class Simulator {
     s[layout.predict] = this.predict ? 1 : 0;
     s[layout.iterations] = 0;
     kernel.loadParts();
-    const done = kernel.run(s, inputs, from, to, solutions);
+    const done = kernel.run(s, kernel.constants, inputs, from, to, solutions);
     kernel.storeParts();
     this.newton.totalIterations += s[layout.iterations];
     if (done === from) return done;

@@ -3,7 +3,7 @@ import { JUNCTION_GMIN_SIEMENS } from '../../devices/device.ts';
 import { HARD_STEP_ITERATIONS, type NewtonTolerances } from '../newton.ts';
 import type { EliminationProgram } from '../straight-line-lu.ts';
 import { junctionCode, limitCode } from './junction-code.ts';
-import { int, literal } from './literals.ts';
+import { ConstantPool, int } from './literals.ts';
 import type { BjtPart, CapacitorPart, DiodePart, KernelPart } from './plan.ts';
 
 /** Everything the generator needs, as numbers and the parts' descriptions. */
@@ -43,7 +43,7 @@ export interface KernelLayout {
  * Runs steps `from` to `to` of the block; returns the index of the first step it could not
  * take (`to` when all went through). Accepted solutions go to `out`, `size` values per step.
  */
-export type KernelRun = (state: Float64Array, input: Float64Array, from: number, to: number, out: Float64Array) => number;
+export type KernelRun = (state: Float64Array, constants: Float64Array, input: Float64Array, from: number, to: number, out: Float64Array) => number;
 
 /** Thrown while generating when a part cannot be expressed (the caller keeps the general loop). */
 export class KernelUnsupported extends Error {}
@@ -60,7 +60,9 @@ export class KernelUnsupported extends Error {}
  * the block at that step and the caller takes the step the general way.
  * The code is built only from numbers and fixed identifiers.
  */
-export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: KernelLayout; code: string } {
+export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: KernelLayout; code: string; constants: Float64Array } {
+  const pool = new ConstantPool();
+  const literal = (value: number): string => pool.ref(value);
   const n = spec.size;
   const h = spec.stepSeconds;
   const a0 = 2 / h;
@@ -134,6 +136,7 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
   });
 
   emit('"use strict";');
+  const constantsAt = lines.length;
   emit(`let ${all((k) => `x${k} = s[${k}],`)} ${all((k) => `p${k} = s[${n + k}],`)} ${all((k) => `o${k} = s[${2 * n + k}],`)} dummy = 0;`);
   emit(`let ${all((k) => `t${k} = 0, n${k} = 0,`)} v = 0, ex = 0, e = 0, arg = 0, lim = 0;`);
   for (const { id, at } of capacitors) emit(`let ${id}s1 = s[${at}], ${id}s2 = s[${at + 1}], ${id}d1 = s[${at + 2}];`);
@@ -174,9 +177,9 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
   for (const { part, id } of diodes) {
     emit('{');
     emit(`let v = ${x('t', part.junction)} - ${x('t', part.cathode)};`);
-    emit(limitCode('v', `${id}v`, part));
+    emit(limitCode(pool, 'v', `${id}v`, part));
     emit(`${id}v = v;`);
-    emit(junctionCode('v', 'I', 'G', part));
+    emit(junctionCode(pool, 'v', 'I', 'G', part));
     emit(`const g = G + ${gmin}; const eq = I + ${gmin} * v - g * v;`);
     stampMatrix(part.junction, part.junction, '+=', 'g');
     stampMatrix(part.junction, part.cathode, '-=', 'g');
@@ -194,11 +197,11 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
     emit('{');
     emit(`const vb = ${x('t', b)};`);
     emit(`let vbe = ${p} * (vb - ${x('t', e)}); let vbc = ${p} * (vb - ${x('t', c)});`);
-    emit(limitCode('vbe', `${id}be`, part));
-    emit(limitCode('vbc', `${id}bc`, part));
+    emit(limitCode(pool, 'vbe', `${id}be`, part));
+    emit(limitCode(pool, 'vbc', `${id}bc`, part));
     emit(`${id}be = vbe; ${id}bc = vbc;`);
-    emit(junctionCode('vbe', 'fI', 'fG', part));
-    emit(junctionCode('vbc', 'rI', 'rG', part));
+    emit(junctionCode(pool, 'vbe', 'fI', 'fG', part));
+    emit(junctionCode(pool, 'vbc', 'rI', 'rG', part));
     const invEarly = literal(part.inverseEarlyVolts);
     const invBf = literal(part.inverseForwardBeta);
     const invBr = literal(part.inverseReverseBeta);
@@ -235,10 +238,10 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
     const l1 = program.lowerStart[k + 1];
     const u0 = program.upperStart[k];
     const u1 = program.upperStart[k + 1];
-    emit(`pv = v${int(program.pivotSlot[k])}; c = pv < 0 ? -pv : pv;`);
+    emit(`pv = v${int(program.pivotSlot[k])}; c = Math.abs(pv);`);
     if (l1 > l0) {
       emit('m = 0;');
-      for (let q = l0; q < l1; q++) emit(`a = v${int(program.lowerSlot[q])}; if (a < 0) a = -a; if (a > m) m = a;`);
+      for (let q = l0; q < l1; q++) emit(`m = Math.max(m, Math.abs(v${int(program.lowerSlot[q])}));`);
       emit(`if (!(c > ${threshold} * m) || c === 0) break steps;`);
       emit('pv = 1 / pv;');
     } else {
@@ -272,7 +275,7 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
     // Every unknown moved less than its tolerance (as Newton.solve judges it).
     emit('let within = true;');
     for (let k = 0; k < n; k++) {
-      emit(`if (within) { const a = n${k} < 0 ? -n${k} : n${k}; const b = t${k} < 0 ? -t${k} : t${k}; const d = n${k} - t${k}; if (!((d < 0 ? -d : d) <= ${literal(tol.relative)} * (a > b ? a : b) + ${tolerance(k)})) within = false; }`);
+      emit(`if (within && !(Math.abs(n${k} - t${k}) <= ${literal(tol.relative)} * Math.max(Math.abs(n${k}), Math.abs(t${k})) + ${tolerance(k)})) within = false;`);
     }
   };
   const quadratic = tol.quadraticAcceptance > 0 && (diodes.length > 0 || bjts.length > 0);
@@ -319,7 +322,25 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
   for (const { id, at } of bjts) emit(`s[${at}] = ${id}be; s[${at + 1}] = ${id}bc; s[${at + 2}] = ${id}ph;`);
   emit(`s[${layout.history}] = history; s[${layout.predict}] = predict; s[${layout.iterations}] = iterationsTotal;`);
   emit('return i;');
+  lines.splice(constantsAt, 0, pool.declarations());
   const code = lines.join('\n');
-  const run = new Function('s', 'input', 'from', 'to', 'out', code) as KernelRun;
-  return { run, layout, code };
+  return { run: compiled(code), layout, code, constants: Float64Array.from(pool.values) };
+}
+
+/**
+ * Generated functions by their code: a circuit rendered again (a slider moved back, a
+ * level search, the next file) reuses the function the engine has already optimised
+ * instead of warming a new one up. Bounded; the oldest entry goes first.
+ */
+const FUNCTIONS = new Map<string, KernelRun>();
+const MAX_FUNCTIONS = 32;
+
+function compiled(code: string): KernelRun {
+  let run = FUNCTIONS.get(code);
+  if (!run) {
+    run = new Function('s', 'k', 'input', 'from', 'to', 'out', code) as KernelRun;
+    if (FUNCTIONS.size >= MAX_FUNCTIONS) FUNCTIONS.delete(FUNCTIONS.keys().next().value as string);
+    FUNCTIONS.set(code, run);
+  }
+  return run;
 }

@@ -1,5 +1,5 @@
 import { EXPONENT_FLOOR, EXPONENT_LIMIT } from '../../devices/junction.ts';
-import { literal } from './literals.ts';
+import type { ConstantPool } from './literals.ts';
 import type { JunctionParameters } from './plan.ts';
 
 /**
@@ -8,14 +8,14 @@ import type { JunctionParameters } from './plan.ts';
  * straight-line continuation above the exponent limit, and no exponential at all
  * for a strongly reverse-biased junction.
  */
-export function junctionCode(volts: string, amperes: string, siemens: string, j: JunctionParameters): string {
-  const is = literal(j.saturationAmperes);
-  const nvt = literal(j.emissionVolts);
+export function junctionCode(pool: ConstantPool, volts: string, amperes: string, siemens: string, j: JunctionParameters): string {
+  const is = pool.ref(j.saturationAmperes);
+  const nvt = pool.ref(j.emissionVolts);
   const expAtLimit = Math.exp(EXPONENT_LIMIT);
   return [
-    `let ${amperes} = ${literal(-j.saturationAmperes)}, ${siemens} = 0;`,
+    `let ${amperes} = -${is}, ${siemens} = 0;`,
     `{ const x = ${volts} / ${nvt};`,
-    `if (x > ${EXPONENT_LIMIT}) { ${amperes} = ${is} * (${literal(expAtLimit)} * (1 + x - ${EXPONENT_LIMIT}) - 1); ${siemens} = ${literal(j.saturationAmperes * expAtLimit)} / ${nvt}; }`,
+    `if (x > ${EXPONENT_LIMIT}) { ${amperes} = ${is} * (${pool.ref(expAtLimit)} * (1 + x - ${EXPONENT_LIMIT}) - 1); ${siemens} = ${pool.ref(j.saturationAmperes * expAtLimit)} / ${nvt}; }`,
     `else if (x >= ${EXPONENT_FLOOR}) { const e = Math.exp(x); ${amperes} = ${is} * (e - 1); ${siemens} = (${is} * e) / ${nvt}; } }`,
   ].join('\n');
 }
@@ -25,11 +25,11 @@ export function junctionCode(volts: string, amperes: string, siemens: string, j:
  * the previous linearisation point `previous`, as `limitJunctionStep` does
  * (Nagel 1975), setting `limited` when it changes the step.
  */
-export function limitCode(volts: string, previous: string, j: JunctionParameters): string {
-  const nvt = literal(j.emissionVolts);
-  const critical = literal(j.criticalVolts);
+export function limitCode(pool: ConstantPool, volts: string, previous: string, j: JunctionParameters): string {
+  const nvt = pool.ref(j.emissionVolts);
+  const critical = pool.ref(j.criticalVolts);
   return [
-    `if (${volts} > ${critical} && Math.abs(${volts} - ${previous}) > ${literal(2 * j.emissionVolts)}) {`,
+    `if (${volts} > ${critical} && Math.abs(${volts} - ${previous}) > ${pool.ref(2 * j.emissionVolts)}) {`,
     'limited = true;',
     `if (${previous} > 0) { const arg = 1 + (${volts} - ${previous}) / ${nvt}; ${volts} = arg > 0 ? ${previous} + ${nvt} * Math.log(arg) : ${critical}; }`,
     `else ${volts} = ${nvt} * Math.log(${volts} / ${nvt});`,

@@ -14,3 +14,24 @@ export function int(value: number): string {
   if (!Number.isInteger(value)) throw new Error(`generated code takes integers only, got ${String(value)}`);
   return String(value);
 }
+
+/**
+ * The numbers of a generated kernel, kept out of its code: the code refers to them
+ * as `k0`, `k1`, … (read once from the array passed in), so circuits that differ only
+ * in part values share one generated function and the engine optimises it once.
+ */
+export class ConstantPool {
+  readonly values: number[] = [];
+
+  /** A name for this number in the generated code. */
+  ref(value: number): string {
+    if (typeof value !== 'number' || !Number.isFinite(value)) throw new Error(`generated code takes finite numbers only, got ${String(value)}`);
+    this.values.push(value);
+    return `k${this.values.length - 1}`;
+  }
+
+  /** The declarations that read every constant from the array `k`. */
+  declarations(): string {
+    return this.values.length === 0 ? '' : `const ${this.values.map((_, i) => `k${i} = k[${i}]`).join(', ')};`;
+  }
+}

@@ -24,6 +24,8 @@ export class StepKernel {
     readonly run: KernelRun,
     /** The generated source (for tests and for reading). */
     readonly code: string,
+    /** The numbers the code reads (part values, step, tolerances). */
+    readonly constants: Float64Array,
     parts: KernelPart[],
   ) {
     this.state = new Float64Array(layout.length);
@@ -44,7 +46,7 @@ export class StepKernel {
       parts.push(...device.kernelParts());
     }
     try {
-      const { run, layout, code } = generateStepKernel({
+      const { run, layout, code, constants } = generateStepKernel({
         size: system.size,
         nodeCount: system.nodeCount,
         stepSeconds,
@@ -57,7 +59,7 @@ export class StepKernel {
         input,
         tolerances,
       });
-      return new StepKernel(stepSeconds, input, matrix.orderings, layout, run, code, parts);
+      return new StepKernel(stepSeconds, input, matrix.orderings, layout, run, code, constants, parts);
     } catch (error) {
       if (error instanceof KernelUnsupported) return null;
       throw error;
