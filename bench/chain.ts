@@ -10,7 +10,7 @@
 import { readFileSync } from 'node:fs';
 import * as path from 'node:path';
 import { decodeWav } from '../src/audio/wav-read.ts';
-import { renderScenario, type RenderOptions } from '../src/link/chain/chain.ts';
+import { DEFAULT_SUBSTEPS, renderScenario, type RenderOptions } from '../src/link/chain/chain.ts';
 import { loadScenarioText } from '../src/scenario/index.ts';
 import { TIGHT_TOLERANCES } from '../src/solver/newton.ts';
 import { renderPipelined } from '../src/worker/node-pipeline.ts';
@@ -45,16 +45,26 @@ const full = timed(null, {});
 const r = full.result.report;
 const duration = r.durationSeconds;
 const solver = r.solver;
-const stepsEach = solver.transmitterSteps;
+const internalSamples = solver.receiverSteps / DEFAULT_SUBSTEPS.receiver;
 console.log(`scenario: ${scenarioFile} (${scenario.title ?? 'untitled'}), clip ${duration.toFixed(2)} s, internal rate ${solver.internalRateHertz / 1000} kHz`);
 console.log(`fast path: ${full.wall.toFixed(2)} s wall, ${full.cpu.toFixed(2)} s CPU for ${duration.toFixed(2)} s of audio (CPU-time real-time factor ${(duration / full.cpu).toFixed(2)})`);
-console.log(`time per internal step: transmitter ${((solver.transmitterSeconds / stepsEach) * 1e6).toFixed(3)} µs, receiver ${((solver.receiverSeconds / solver.receiverSteps) * 1e6).toFixed(3)} µs, whole chain ${((full.wall / stepsEach) * 1e6).toFixed(3)} µs`);
-console.log(`Newton iterations per step: ${(solver.newtonIterations / (solver.transmitterSteps + solver.receiverSteps)).toFixed(3)}`);
+console.log(
+  `time per integration step: transmitter ${((solver.transmitterSeconds / solver.transmitterSteps) * 1e6).toFixed(3)} µs (${DEFAULT_SUBSTEPS.transmitter} steps per internal sample), ` +
+    `receiver ${((solver.receiverSeconds / solver.receiverSteps) * 1e6).toFixed(3)} µs (${DEFAULT_SUBSTEPS.receiver}); whole chain ${((full.wall / internalSamples) * 1e6).toFixed(3)} µs per internal sample`,
+);
+console.log(
+  `Newton iterations per step: transmitter ${(solver.transmitterNewtonIterations / solver.transmitterSteps).toFixed(3)}, receiver ${(solver.receiverNewtonIterations / solver.receiverSteps).toFixed(3)}; ` +
+    `${((100 * solver.generatedSteps) / (solver.transmitterSteps + solver.receiverSteps)).toFixed(2)} % of steps in the generated kernels`,
+);
 
 const excerpt = 2;
 const fast = timed(excerpt, {});
-const reference = timed(excerpt, { solver: { substeps: 8, tolerances: TIGHT_TOLERANCES } });
-console.log(`accuracy (${excerpt} s excerpt): far end vs reference (8× smaller steps, tight Newton): ${relativeRmsError(fast.result.farEndVolts, reference.result.farEndVolts).toExponential(3)} relative rms`);
+const referenceSubsteps = { transmitter: 8 * DEFAULT_SUBSTEPS.transmitter, receiver: 8 * DEFAULT_SUBSTEPS.receiver };
+const reference = timed(excerpt, { solver: { substeps: referenceSubsteps, tolerances: TIGHT_TOLERANCES } });
+console.log(
+  `accuracy (${excerpt} s excerpt): far end vs reference (8× smaller steps: ${referenceSubsteps.transmitter} and ${referenceSubsteps.receiver} per internal sample, tight Newton): ` +
+    `${relativeRmsError(fast.result.farEndVolts, reference.result.farEndVolts).toExponential(3)} relative rms`,
+);
 const straightforward = timed(excerpt, { solver: { linearAlgebra: 'dense' } });
 console.log(`straightforward path (dense elimination each iteration): ${straightforward.wall.toFixed(2)} s vs fast ${fast.wall.toFixed(2)} s on ${excerpt} s: ratio ${(straightforward.wall / fast.wall).toFixed(2)}×`);
 console.log(`peak resident memory: ${(process.resourceUsage().maxRSS / 1024).toFixed(0)} MB (this process, all runs above)`);

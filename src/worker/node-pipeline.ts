@@ -73,7 +73,7 @@ export function renderPipelined(scenario: Scenario, options: RenderOptions = {})
             facts = message.facts;
             const timing = message.timing;
             farEnd = new Float64Array(options.onFarEnd ? 0 : timing.totalSamples);
-            totalInternal = (timing.totalSamples + timing.latencySamples) * timing.factor;
+            totalInternal = (timing.totalSamples + timing.latencySamples + timing.holdbackSamples) * timing.factor;
             receiver = new ReceiverStage(scenario, stageSettings(scenario, options), timing, tapNames.filter(isReceiverTap), (chunk, offset) => {
               if (options.onFarEnd) options.onFarEnd(chunk.slice());
               else farEnd.set(chunk, offset);

@@ -5,6 +5,7 @@ import type { Scenario } from '../../scenario/types.ts';
 import { Simulator } from '../../solver/simulator.ts';
 import { Decimator } from '../oversampler.ts';
 import { withLightInputAndSpeaker } from './rewire.ts';
+import { SubstepInput, substepHoldback } from './substep-input.ts';
 import { TapCapture, resolveTap } from './taps.ts';
 import { stageFigures, type StageFigures, type StageSettings } from './transmitter-stage.ts';
 import { updateWatches, watchTransistors, type TransistorWatch } from './transistor-watch.ts';
@@ -15,6 +16,8 @@ export interface ReceiverTiming {
   factor: number;
   totalSamples: number;
   latencySamples: number;
+  /** Audio samples run on after the padding for the stages' substep look-ahead. */
+  holdbackSamples: number;
   upLatencyInternal: number;
   offsetSeconds: number;
   /** The detector's light drive at rest, watts. */
@@ -49,7 +52,7 @@ export class ReceiverStage {
   private readonly stepInputs: Float64Array;
   private readonly solutions: Float64Array;
   private readonly x: Float64Array;
-  private previousLightWatts: number;
+  private readonly substepInput: SubstepInput;
   private index = 0;
   private farWritten: number;
   private squares = 0;
@@ -73,7 +76,6 @@ export class ReceiverStage {
     this.speakerPlus = this.simulator.system.nodeIndex(r.output[0]) ?? -1;
     this.speakerMinus = this.simulator.system.nodeIndex(r.output[1]) ?? -1;
     this.drive.upstreamValue = timing.restingLightDriveWatts;
-    this.previousLightWatts = timing.restingLightDriveWatts;
     this.simulator.operatingPoint();
     const h = 1 / (timing.sampleRateHertz * timing.factor);
     this.down = new Decimator(timing.factor);
@@ -98,27 +100,24 @@ export class ReceiverStage {
     this.speaker = new Float64Array(settings.chunkSamples * timing.factor);
     this.farChunk = new Float64Array(settings.chunkSamples + 1);
     const size = this.simulator.system.size;
-    this.stepInputs = new Float64Array(settings.chunkSamples * timing.factor * settings.substeps);
-    this.solutions = new Float64Array(settings.chunkSamples * timing.factor * settings.substeps * size);
+    const substeps = settings.substeps.receiver;
+    this.substepInput = new SubstepInput(substeps, substepHoldback(timing.factor), timing.restingLightDriveWatts, settings.chunkSamples * timing.factor);
+    this.stepInputs = new Float64Array(settings.chunkSamples * timing.factor * substeps);
+    this.solutions = new Float64Array(settings.chunkSamples * timing.factor * substeps * size);
     this.x = new Float64Array(size + 1);
   }
 
-  /** Steps the receiver through `m` internal samples of light (watts). */
-  process(light: Float64Array, m: number): void {
+  /** Steps the receiver through `count` more internal samples of light (watts), less its look-ahead. */
+  process(light: Float64Array, count: number): void {
     const { simulator, drive, speaker, watches, stepInputs, solutions, x } = this;
     const size = simulator.system.size;
-    const substeps = this.settings.substeps;
+    const substeps = this.settings.substeps.receiver;
     const hSub = 1 / (this.timing.sampleRateHertz * this.timing.factor) / substeps;
     const plus = this.speakerPlus;
     const minus = this.speakerMinus;
     const circuitTaps = this.circuitTaps;
     const clock = performance.now();
-    let previous = this.previousLightWatts;
-    for (let i = 0; i < m; i++) {
-      const watts = light[i];
-      for (let k = substeps - 1; k >= 0; k--) stepInputs[i * substeps + substeps - 1 - k] = watts - (k / substeps) * (watts - previous);
-      previous = watts;
-    }
+    const m = this.substepInput.process(light, count, stepInputs);
     const first = this.index * substeps + 1;
     // A tap that reads a device's own state must see it right after its step: then one sample at a time.
     const run = this.tapsReadDevices ? 1 : m;
@@ -131,7 +130,6 @@ export class ReceiverStage {
       updateWatches(watches, index, x);
       for (const tap of circuitTaps) tap.push((tap.source as { probe: (x: Float64Array) => number }).probe(x));
     }
-    this.previousLightWatts = previous;
     this.milliseconds += performance.now() - clock;
 
     const produced = this.down.process(speaker.subarray(0, m), this.farChunk);

@@ -42,6 +42,9 @@ export interface RenderReport {
     transmitterSteps: number;
     receiverSteps: number;
     newtonIterations: number;
+    /** The same, circuit by circuit. */
+    transmitterNewtonIterations: number;
+    receiverNewtonIterations: number;
     subdividedSteps: number;
     /** Steps taken by the circuits' generated kernels (the rest took the general loop). */
     generatedSteps: number;

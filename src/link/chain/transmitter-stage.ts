@@ -10,6 +10,7 @@ import { Microphone } from '../microphone.ts';
 import { Decimator, Upsampler } from '../oversampler.ts';
 import { IntervalTracker, toEpisodes, type Episodes } from './intervals.ts';
 import { withMicrophoneResistance } from './rewire.ts';
+import { SubstepInput, substepHoldback } from './substep-input.ts';
 import { calibratedSource, type CalibratedSource, type Recording } from './source.ts';
 import { TapCapture, resolveTap, type TapRecord } from './taps.ts';
 import { finishWatches, updateWatches, watchTransistors, type TransistorEpisodes, type TransistorWatch } from './transistor-watch.ts';
@@ -17,8 +18,8 @@ import { finishWatches, updateWatches, watchTransistors, type TransistorEpisodes
 /** Settings shared by both stages of a render. */
 export interface StageSettings {
   solver: SimulatorOptions;
-  /** Integration steps per internal sample (1 = one). */
-  substeps: number;
+  /** Integration steps per internal sample in each circuit (1 = one). */
+  substeps: { transmitter: number; receiver: number };
   /** Audio-rate samples per chunk. */
   chunkSamples: number;
   /** Receives tap blocks as they fill (then the tap records come back empty). */
@@ -64,9 +65,12 @@ export class TransmitterStage {
   readonly sampleRateHertz: number;
   readonly factor: number;
   readonly internalRateHertz: number;
-  /** Source samples; the run feeds `latencySamples` of silence after them so the far end is complete. */
+  /** Source samples; the run feeds `paddedSamples − totalSamples` of silence after them so the far end is complete. */
   readonly totalSamples: number;
+  /** Filter latency from source to far end, audio samples (taken off to align them). */
   readonly latencySamples: number;
+  /** Audio samples the stages hold back for their substep look-ahead (run on, not taken off). */
+  readonly holdbackSamples: number;
   /** Internal samples by which the circuits lag the source (the upsampler). */
   readonly upLatencyInternal: number;
   /** Source time of internal sample 0 (negative: the filter fill). */
@@ -102,7 +106,7 @@ export class TransmitterStage {
   private readonly x: Float64Array;
   private position = 0;
   private step = 0;
-  private previousMicVolts = 0;
+  private readonly substepInput: SubstepInput;
   private ledMin = Infinity;
   private ledMax = -Infinity;
   private ledSum = 0;
@@ -160,6 +164,10 @@ export class TransmitterStage {
 
     this.up = new Upsampler(this.factor);
     this.latencySamples = this.up.latencySamples + new Decimator(this.factor).latencySamples;
+    const holdback = substepHoldback(this.factor);
+    const s = settings.substeps;
+    this.holdbackSamples = ((s.transmitter > 1 ? holdback : 0) + (s.receiver > 1 ? holdback : 0)) / this.factor;
+    this.substepInput = new SubstepInput(s.transmitter, holdback, 0, settings.chunkSamples * this.factor);
     this.upLatencyInternal = this.up.latencyInternalSamples;
     this.offsetSeconds = -this.upLatencyInternal * h;
     this.totalSamples = this.source.pascals.length;
@@ -190,14 +198,19 @@ export class TransmitterStage {
     this.detectorWatts = new Float64Array(chunk * this.factor);
     this.photoAmperes = new Float64Array(chunk * this.factor);
     const size = this.simulator.system.size;
-    this.stepInputs = new Float64Array(chunk * this.factor * settings.substeps);
-    this.solutions = new Float64Array(chunk * this.factor * settings.substeps * size);
+    this.stepInputs = new Float64Array(chunk * this.factor * settings.substeps.transmitter);
+    this.solutions = new Float64Array(chunk * this.factor * settings.substeps.transmitter * size);
     this.x = new Float64Array(size + 1);
   }
 
-  /** Audio samples fed so far, out of `totalSamples + latencySamples`. */
+  /** Source samples and the silence after them that the run feeds through. */
+  get paddedSamples(): number {
+    return this.totalSamples + this.latencySamples + this.holdbackSamples;
+  }
+
+  /** Audio samples fed so far, out of `paddedSamples`. */
   get fraction(): number {
-    return this.position / (this.totalSamples + this.latencySamples);
+    return this.position / this.paddedSamples;
   }
 
   /**
@@ -205,7 +218,7 @@ export class TransmitterStage {
    * each internal sample into `light` and returns how many (0 when done).
    */
   next(light: Float64Array): number {
-    const padded = this.totalSamples + this.latencySamples;
+    const padded = this.paddedSamples;
     if (this.position >= padded) return 0;
     const start = this.position;
     const n = Math.min(this.settings.chunkSamples, padded - start);
@@ -219,8 +232,11 @@ export class TransmitterStage {
       if (tap.source.stage === 'source') for (let i = 0; i < n; i++) if (start + i < total) tap.push(inputs[i]);
       if (tap.source.stage === 'microphone') for (let i = 0; i < n; i++) if (start + i < total) tap.push(volts[i]);
     }
-    const m = this.up.process(volts, this.internal);
+    const upsampled = this.up.process(volts, this.internal);
+    const m = this.substepInput.process(this.internal, upsampled, this.stepInputs);
     this.position += n;
+    // Only while the look-ahead fills (a chunk shorter than it): nothing to hand on yet.
+    if (m === 0) return this.next(light);
 
     const clock = performance.now();
     this.runCircuit(m);
@@ -241,8 +257,8 @@ export class TransmitterStage {
   }
 
   private runCircuit(m: number): void {
-    const { simulator, drive, led, internal, watches, emitterWatts, ledCutoff, cutoffAmperes, stepInputs, solutions, x } = this;
-    const substeps = this.settings.substeps;
+    const { simulator, drive, led, watches, emitterWatts, ledCutoff, cutoffAmperes, stepInputs, solutions, x } = this;
+    const substeps = this.settings.substeps.transmitter;
     const hSub = 1 / this.internalRateHertz / substeps;
     const size = simulator.system.size;
     const firstKept = this.upLatencyInternal;
@@ -250,17 +266,10 @@ export class TransmitterStage {
     const circuitTaps = this.circuitTaps;
     // Hot loop: state in locals, written back at the end.
     let step = this.step;
-    let previous = this.previousMicVolts;
     let ledMin = this.ledMin;
     let ledMax = this.ledMax;
     let ledSum = this.ledSum;
     let ledCount = this.ledCount;
-    for (let i = 0; i < m; i++) {
-      const volts = internal[i];
-      // Substeps see the input interpolated linearly, as the trapezoidal rule assumes between samples.
-      for (let k = substeps - 1; k >= 0; k--) stepInputs[i * substeps + substeps - 1 - k] = volts - (k / substeps) * (volts - previous);
-      previous = volts;
-    }
     const first = step * substeps + 1;
     // A tap that reads a device's own state must see it right after its step: then one sample at a time.
     const run = this.tapsReadDevices ? 1 : m;
@@ -283,7 +292,6 @@ export class TransmitterStage {
       for (const tap of circuitTaps) tap.push((tap.source as { probe: (x: Float64Array) => number }).probe(x));
     }
     this.step = step;
-    this.previousMicVolts = previous;
     this.ledMin = ledMin;
     this.ledMax = ledMax;
     this.ledSum = ledSum;
