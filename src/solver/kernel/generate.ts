@@ -136,7 +136,6 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
   });
 
   emit('"use strict";');
-  const constantsAt = lines.length;
   emit(`let ${all((k) => `x${k} = s[${k}],`)} ${all((k) => `p${k} = s[${n + k}],`)} ${all((k) => `o${k} = s[${2 * n + k}],`)} dummy = 0;`);
   emit(`let ${all((k) => `t${k} = 0, n${k} = 0,`)} v = 0, ex = 0, e = 0, arg = 0, lim = 0;`);
   for (const { id, at } of capacitors) emit(`let ${id}s1 = s[${at}], ${id}s2 = s[${at + 1}], ${id}d1 = s[${at + 2}];`);
@@ -322,7 +321,6 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
   for (const { id, at } of bjts) emit(`s[${at}] = ${id}be; s[${at + 1}] = ${id}bc; s[${at + 2}] = ${id}ph;`);
   emit(`s[${layout.history}] = history; s[${layout.predict}] = predict; s[${layout.iterations}] = iterationsTotal;`);
   emit('return i;');
-  lines.splice(constantsAt, 0, pool.declarations());
   const code = lines.join('\n');
   return { run: compiled(code), layout, code, constants: Float64Array.from(pool.values) };
 }

@@ -16,9 +16,11 @@ export function int(value: number): string {
 }
 
 /**
- * The numbers of a generated kernel, kept out of its code: the code refers to them
- * as `k0`, `k1`, … (read once from the array passed in), so circuits that differ only
- * in part values share one generated function and the engine optimises it once.
+ * The numbers of a generated kernel, kept out of its code: the code reads them from
+ * the array `k` where it uses them, so circuits that differ only in part values share
+ * one generated function and the engine optimises it once. (Read at the point of use
+ * rather than hoisted into locals: hundreds of values live across the whole step loop
+ * made the engine's optimising compile several times slower.)
  */
 export class ConstantPool {
   readonly values: number[] = [];
@@ -27,11 +29,6 @@ export class ConstantPool {
   ref(value: number): string {
     if (typeof value !== 'number' || !Number.isFinite(value)) throw new Error(`generated code takes finite numbers only, got ${String(value)}`);
     this.values.push(value);
-    return `k${this.values.length - 1}`;
-  }
-
-  /** The declarations that read every constant from the array `k`. */
-  declarations(): string {
-    return this.values.length === 0 ? '' : `const ${this.values.map((_, i) => `k${i} = k[${i}]`).join(', ')};`;
+    return `k[${this.values.length - 1}]`;
   }
 }
