@@ -2,6 +2,7 @@ import type { DriveSignal } from '../../devices/wave.ts';
 import { JUNCTION_GMIN_SIEMENS } from '../../devices/device.ts';
 import { HARD_STEP_ITERATIONS, type NewtonTolerances } from '../newton.ts';
 import type { EliminationProgram } from '../straight-line-lu.ts';
+import { eliminationCode, PivotOrderUnfit } from './elimination-code.ts';
 import { junctionCode, limitCode } from './junction-code.ts';
 import { ConstantPool, int } from './literals.ts';
 import type { BjtPart, CapacitorPart, DiodePart, KernelPart } from './plan.ts';
@@ -83,8 +84,9 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
   const layout: KernelLayout = { solution: 0, previous: n, older: 2 * n, partState, history: offset, predict: offset + 1, iterations: offset + 2, length: offset + 3 };
 
   const lines: string[] = [];
+  let sink = lines;
   const emit = (line: string): void => {
-    lines.push(line);
+    sink.push(line);
   };
   const all = (f: (k: number) => string): string => Array.from({ length: n }, (_, k) => f(k)).join(' ');
 
@@ -136,9 +138,10 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
   });
 
   emit('"use strict";');
-  emit(`let ${all((k) => `x${k} = s[${k}],`)} ${all((k) => `p${k} = s[${n + k}],`)} ${all((k) => `o${k} = s[${2 * n + k}],`)} dummy = 0;`);
+  // The solution lives in locals; the two points before it stay in the state array (only the predictor reads them).
+  emit(`let ${all((k) => `x${k} = s[${k}],`)} dummy = 0;`);
   emit(`let ${all((k) => `t${k} = 0, n${k} = 0,`)} v = 0, ex = 0, e = 0, arg = 0, lim = 0;`);
-  for (const { id, at } of capacitors) emit(`let ${id}s1 = s[${at}], ${id}s2 = s[${at + 1}], ${id}d1 = s[${at + 2}];`);
+  for (const { id, at } of capacitors) emit(`let ${id}s1 = s[${at}], ${id}d1 = s[${at + 2}];`);
   for (const { id, at } of diodes) emit(`let ${id}v = s[${at}];`);
   for (const { id, at } of bjts) emit(`let ${id}be = s[${at}], ${id}bc = s[${at + 1}], ${id}ph = s[${at + 2}];`);
   emit(`let history = s[${layout.history}], predict = s[${layout.predict}], iterationsTotal = s[${layout.iterations}];`);
@@ -147,26 +150,29 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
   emit('const u = input[i];');
   for (const line of stepCode) emit(line);
   for (let r = 0; r < n; r++) emit(`const r${r} = 0 ${stepTerms[r].join(' ')};`);
-  // Predictor: quadratic or linear extrapolation through the accepted points (equal steps).
-  emit('if (predict === 1 && history >= 2) {');
-  emit(all((k) => `t${k} = 3 * x${k} + (-3) * p${k} + o${k};`));
-  emit('} else if (predict === 1 && history >= 1) {');
-  emit(all((k) => `t${k} = x${k} + (x${k} - p${k});`));
-  emit('} else {');
-  emit(all((k) => `t${k} = x${k};`));
-  emit('}');
+  // Predictor: quadratic or linear extrapolation through the accepted points (equal steps), or none.
+  // One line with chosen coefficients rather than three branches: a branch first taken late would
+  // send the engine back to its unoptimised code.
+  emit('const c0 = predict === 1 ? (history >= 2 ? 3 : history >= 1 ? 2 : 1) : 1;');
+  emit('const c1 = predict === 1 ? (history >= 2 ? -3 : history >= 1 ? -1 : 0) : 0;');
+  emit('const c2 = predict === 1 && history >= 2 ? 1 : 0;');
+  emit(all((k) => `t${k} = c0 * x${k} + c1 * s[${n + k}] + c2 * s[${2 * n + k}];`));
   emit('let converged = false, iterations = 0;');
   emit(`newton: for (let it = 1; it <= ${int(tol.maxIterations)}; it++) {`);
   emit('iterations = it; iterationsTotal++;');
   emit('let limited = false;');
-  // Matrix entries start from the constant part; fill-in starts at zero.
-  const slots: string[] = [];
-  for (let sl = 1; sl < spec.slotCount; sl++) slots.push(`v${sl} = ${literal(sl < spec.constantValues.length ? spec.constantValues[sl] : 0)}`);
-  emit(`let ${slots.join(', ')};`);
   emit(`let ${all((k) => `w${k} = r${k},`)} dummy2 = 0;`);
+  // The junctions' code goes aside first, to learn which matrix entries they stamp: those become
+  // locals starting from the constant part; every other entry is fixed for the run.
+  const constantOf = (sl: number): number => (sl < spec.constantValues.length ? spec.constantValues[sl] : 0);
+  const stamped = new Set<number>();
+  const deviceLines: string[] = [];
+  sink = deviceLines;
   const stampMatrix = (row: number, col: number, op: '+=' | '-=', expr: string): void => {
     const sl = slot(row, col);
-    if (sl !== 0) emit(`v${sl} ${op} ${expr};`);
+    if (sl === 0) return;
+    stamped.add(sl);
+    emit(`v${sl} ${op} ${expr};`);
   };
   const stampRhs = (row: number, op: '+=' | '-=', expr: string): void => {
     if (row >= 0 && row < n) emit(`w${row} ${op} ${expr};`);
@@ -228,43 +234,14 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
     emit('}');
   }
 
-  // Elimination in the sparse matrix's order, on locals; a pivot that has gone small ends the block.
-  const threshold = literal(spec.pivotThreshold);
-  emit('{ let pv = 0, c = 0, m = 0, a = 0, bk = 0;');
-  let target = 0;
-  for (let k = 0; k < program.size; k++) {
-    const l0 = program.lowerStart[k];
-    const l1 = program.lowerStart[k + 1];
-    const u0 = program.upperStart[k];
-    const u1 = program.upperStart[k + 1];
-    emit(`pv = v${int(program.pivotSlot[k])}; c = Math.abs(pv);`);
-    if (l1 > l0) {
-      emit('m = 0;');
-      for (let q = l0; q < l1; q++) emit(`m = Math.max(m, Math.abs(v${int(program.lowerSlot[q])}));`);
-      emit(`if (!(c > ${threshold} * m) || c === 0) break steps;`);
-      emit('pv = 1 / pv;');
-    } else {
-      emit('if (c === 0 || c !== c) break steps;');
-    }
-    for (let q = l0; q < l1; q++) {
-      emit(`m = v${int(program.lowerSlot[q])} *= pv;`);
-      for (let up = u0; up < u1; up++) emit(`v${int(program.updateTarget[target++])} -= m * v${int(program.upperSlot[up])};`);
-    }
-  }
-  for (let k = 0; k < program.size; k++) {
-    const l0 = program.lowerStart[k];
-    const l1 = program.lowerStart[k + 1];
-    if (l1 === l0) continue;
-    emit(`bk = w${int(program.pivotRow[k])};`);
-    for (let q = l0; q < l1; q++) emit(`w${int(program.lowerRow[q])} -= v${int(program.lowerSlot[q])} * bk;`);
-  }
-  for (let k = program.size - 1; k >= 0; k--) {
-    const terms: string[] = [];
-    for (let up = program.upperStart[k]; up < program.upperStart[k + 1]; up++) {
-      terms.push(` - v${int(program.upperSlot[up])} * n${int(program.upperCol[up])}`);
-    }
-    emit(`n${int(program.pivotCol[k])} = (w${int(program.pivotRow[k])}${terms.join('')}) / v${int(program.pivotSlot[k])};`);
-  }
+  sink = lines;
+  const stampedSlots = [...stamped].sort((a, b) => a - b);
+  if (stampedSlots.length > 0) emit(`let ${stampedSlots.map((sl) => `v${sl} = ${literal(constantOf(sl))}`).join(', ')};`);
+  for (const line of deviceLines) emit(line);
+
+  // Elimination in the sparse matrix's order, fixed parts folded; a pivot that has gone small ends the block.
+  emit('{');
+  for (const line of eliminationCode(program, stamped, constantOf, pool, spec.pivotThreshold, 'break steps;')) emit(line);
   emit('}');
 
   // Convergence as Newton.solve judges it.
@@ -277,16 +254,12 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
       emit(`if (within && !(Math.abs(n${k} - t${k}) <= ${literal(tol.relative)} * Math.max(Math.abs(n${k}), Math.abs(t${k})) + ${tolerance(k)})) within = false;`);
     }
   };
-  const quadratic = tol.quadraticAcceptance > 0 && (diodes.length > 0 || bjts.length > 0);
-  if (!quadratic) {
-    toleranceCheck();
-    emit(all((k) => `t${k} = n${k};`));
-    emit('if (limited) continue;');
-    emit('if (within) { converged = true; break; }');
-  } else {
-    // Quadratic acceptance first (it decides most steps and is cheaper): ½(Δv/nVT)² of every
-    // junction at the new iterate against its linearisation point; the tolerance check only when that fails.
-    emit('let worst = 0;');
+  // Accepted when every unknown moved less than its tolerance or, on a time step, when every
+  // junction's linearisation is within the quadratic-acceptance bound at the new iterate:
+  // ½(Δv/nVT)² against its linearisation point. Both are always evaluated (no late first branch).
+  toleranceCheck();
+  emit('let worst = 0;');
+  if (tol.quadraticAcceptance > 0) {
     for (const { part, id } of diodes) {
       emit(`{ const d = (${x('n', part.junction)} - ${x('n', part.cathode)} - ${id}v) / ${literal(part.emissionVolts)}; const r = 0.5 * (d * d); if (r > worst) worst = r; }`);
     }
@@ -297,26 +270,25 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
       emit(`const bc = (${p} * (vb - ${x('n', part.collector)}) - ${id}bc) / ${literal(part.emissionVolts)};`);
       emit('const r = 0.5 * (be * be > bc * bc ? be * be : bc * bc); if (r > worst) worst = r; }');
     }
-    emit(`if (!limited && worst <= ${literal(tol.quadraticAcceptance)}) { ${all((k) => `t${k} = n${k};`)} converged = true; break; }`);
-    toleranceCheck();
-    emit(all((k) => `t${k} = n${k};`));
-    emit('if (limited) continue;');
-    emit('if (within) { converged = true; break; }');
   }
+  emit(all((k) => `t${k} = n${k};`));
+  emit('if (limited) continue;');
+  const quadratic = tol.quadraticAcceptance > 0 && (diodes.length > 0 || bjts.length > 0);
+  emit(`if (within${quadratic ? ` || worst <= ${literal(tol.quadraticAcceptance)}` : ''}) { converged = true; break; }`);
   emit('}'); // newton
   emit('if (!converged) break;');
   // Accept: capacitor histories, predictor points, output.
-  for (const { part, id } of capacitors) {
-    emit(`{ const sq = ${literal(part.farads)} * (${x('t', part.a)} - ${x('t', part.b)}); const dq = ${literal(a0)} * sq + ${id}h; ${id}s2 = ${id}s1; ${id}s1 = sq; ${id}d1 = dq; }`);
+  for (const { part, id, at } of capacitors) {
+    emit(`{ const sq = ${literal(part.farads)} * (${x('t', part.a)} - ${x('t', part.b)}); const dq = ${literal(a0)} * sq + ${id}h; s[${at + 1}] = ${id}s1; ${id}s1 = sq; ${id}d1 = dq; }`);
   }
-  emit(all((k) => `o${k} = p${k}; p${k} = x${k}; x${k} = t${k};`));
+  emit(all((k) => `s[${2 * n + k}] = s[${n + k}]; s[${n + k}] = x${k}; x${k} = t${k};`));
   emit('history = history < 2 ? history + 1 : 2;');
   emit(`predict = iterations <= ${int(HARD_STEP_ITERATIONS)} ? 1 : 0; if (predict === 0) history = 0;`);
   emit(`{ const at = i * ${int(n)}; ${all((k) => `out[at + ${k}] = x${k};`)} }`);
   emit('}'); // steps
   // Write the state back.
-  emit(all((k) => `s[${k}] = x${k}; s[${n + k}] = p${k}; s[${2 * n + k}] = o${k};`));
-  for (const { id, at } of capacitors) emit(`s[${at}] = ${id}s1; s[${at + 1}] = ${id}s2; s[${at + 2}] = ${id}d1;`);
+  emit(all((k) => `s[${k}] = x${k};`));
+  for (const { id, at } of capacitors) emit(`s[${at}] = ${id}s1; s[${at + 2}] = ${id}d1;`);
   for (const { id, at } of diodes) emit(`s[${at}] = ${id}v;`);
   for (const { id, at } of bjts) emit(`s[${at}] = ${id}be; s[${at + 1}] = ${id}bc; s[${at + 2}] = ${id}ph;`);
   emit(`s[${layout.history}] = history; s[${layout.predict}] = predict; s[${layout.iterations}] = iterationsTotal;`);

@@ -2,6 +2,7 @@ import type { DriveSignal } from '../../devices/wave.ts';
 import type { NewtonTolerances } from '../newton.ts';
 import { SparseLu } from '../sparse-lu.ts';
 import type { CircuitSystem } from '../system.ts';
+import { PivotOrderUnfit } from './elimination-code.ts';
 import { KernelUnsupported, generateStepKernel, type KernelLayout, type KernelRun } from './generate.ts';
 import type { KernelPart } from './plan.ts';
 
@@ -61,7 +62,7 @@ export class StepKernel {
       });
       return new StepKernel(stepSeconds, input, matrix.orderings, layout, run, code, constants, parts);
     } catch (error) {
-      if (error instanceof KernelUnsupported) return null;
+      if (error instanceof KernelUnsupported || error instanceof PivotOrderUnfit) return null;
       throw error;
     }
   }
