@@ -6,7 +6,7 @@
  * as in resample) and gives the last round(n·to/from) − (outputs so far) samples.
  */
 import { InputError } from '../errors.ts';
-import { checkRate } from './resample.ts';
+import { checkRate, resampledLength } from './resample.ts';
 import { firstInputOf, lastInputOf, resampleKernel, resampleSpan, type ResampleKernel } from './resample-kernel.ts';
 
 export class StreamResampler {
@@ -64,7 +64,7 @@ export class StreamResampler {
     if (this.finished) return this.output.subarray(0, 0);
     this.finished = true;
     const kernel = this.kernel;
-    const total = Math.round((this.received * this.toHertz) / this.fromHertz);
+    const total = resampledLength(this.received, this.fromHertz, this.toHertz);
     if (kernel === null || this.received === 0) return this.output.subarray(0, 0);
     return this.emit(kernel, total, this.received - 1);
   }

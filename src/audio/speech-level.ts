@@ -22,6 +22,11 @@
  * full scale. The interpolation makes the result insensitive to where the rungs sit.
  *
  * Levels are in dB re an rms of 1 (a full-scale sine of peak 1 reads −3.01 dB).
+ *
+ * The ladder needs the peak first, so the measurement is two passes over the signal
+ * (energy and peak, then the envelope's counts). activeSpeechLevelOf takes the passes
+ * chunk by chunk, for a recording too long to hold; activeSpeechLevel is the same on
+ * an array in memory (one chunk), with the same arithmetic in the same order.
  */
 import { InputError } from '../errors.ts';
 
@@ -40,70 +45,114 @@ export interface SpeechLevel {
 }
 
 export function activeSpeechLevel(samples: Float64Array | Float32Array, sampleRateHertz: number): SpeechLevel {
+  return activeSpeechLevelOf(sampleRateHertz, (take) => take(samples));
+}
+
+/** One pass over the signal: calls `take` with its chunks in order. */
+export type SignalPass = (take: (chunk: Float64Array | Float32Array) => void) => void;
+
+/** The active speech level of a signal read in two passes (`pass` is called twice). */
+export function activeSpeechLevelOf(sampleRateHertz: number, pass: SignalPass): SpeechLevel {
   if (!(Number.isFinite(sampleRateHertz) && sampleRateHertz > 0)) {
     throw new InputError('sampleRateHertz', 'a positive number of hertz', `got ${sampleRateHertz}`);
   }
-  const n = samples.length;
-  if (n === 0) throw new InputError('samples', 'at least one sample', 'got none');
+  const energy = new SpeechEnergy();
+  pass((chunk) => energy.push(chunk));
+  if (energy.count === 0) throw new InputError('samples', 'at least one sample', 'got none');
+  if (energy.sumSquares === 0) return { activeLevelDb: -Infinity, activityFactor: 0, longTermRmsDb: -Infinity };
+  const activity = new SpeechActivity(energy.peak, sampleRateHertz);
+  pass((chunk) => activity.push(chunk));
+  return activity.level(energy);
+}
 
-  let sumSquares = 0;
-  let peak = 0;
-  for (let i = 0; i < n; i++) {
-    const x = samples[i];
-    if (!Number.isFinite(x)) throw new InputError(`samples[${i}]`, 'a finite number', `got ${x}`);
-    sumSquares += x * x;
-    const magnitude = Math.abs(x);
-    if (magnitude > peak) peak = magnitude;
+/** First pass: sum of squares and peak |x|. */
+export class SpeechEnergy {
+  count = 0;
+  sumSquares = 0;
+  peak = 0;
+
+  push(samples: Float64Array | Float32Array): void {
+    let sumSquares = this.sumSquares;
+    let peak = this.peak;
+    for (let i = 0; i < samples.length; i++) {
+      const x = samples[i];
+      if (!Number.isFinite(x)) throw new InputError(`samples[${this.count + i}]`, 'a finite number', `got ${x}`);
+      sumSquares += x * x;
+      const magnitude = Math.abs(x);
+      if (magnitude > peak) peak = magnitude;
+    }
+    this.sumSquares = sumSquares;
+    this.peak = peak;
+    this.count += samples.length;
   }
-  if (sumSquares === 0) return { activeLevelDb: -Infinity, activityFactor: 0, longTermRmsDb: -Infinity };
-  const longTermRmsDb = 10 * Math.log10(sumSquares / n);
+}
 
-  const thresholds = new Float64Array(LADDER_STEPS);
-  for (let j = 0; j < LADDER_STEPS; j++) thresholds[j] = peak * 2 ** -j;
-  const activeCounts = new Float64Array(LADDER_STEPS);
-  const hangCounters = new Int32Array(LADDER_STEPS);
-  const hangoverSamples = Math.round(P56_HANGOVER_SECONDS * sampleRateHertz);
-  hangCounters.fill(hangoverSamples); // start "expired": nothing is active before the envelope rises
+/** Second pass: the envelope against the threshold ladder under the peak. */
+export class SpeechActivity {
+  private readonly thresholds = new Float64Array(LADDER_STEPS);
+  private readonly activeCounts = new Float64Array(LADDER_STEPS);
+  private readonly hangCounters = new Int32Array(LADDER_STEPS);
+  private readonly hangoverSamples: number;
+  private readonly g: number;
+  private q = 0;
+  private p = 0;
 
-  const g = Math.exp(-1 / (sampleRateHertz * P56_ENVELOPE_SECONDS));
-  let q = 0;
-  let p = 0;
-  for (let i = 0; i < n; i++) {
-    q = g * q + (1 - g) * Math.abs(samples[i]);
-    p = g * p + (1 - g) * q;
-    for (let j = 0; j < LADDER_STEPS; j++) {
-      if (p >= thresholds[j]) {
-        activeCounts[j]++;
-        hangCounters[j] = 0;
-      } else if (hangCounters[j] < hangoverSamples) {
-        activeCounts[j]++;
-        hangCounters[j]++;
+  constructor(peak: number, sampleRateHertz: number) {
+    for (let j = 0; j < LADDER_STEPS; j++) this.thresholds[j] = peak * 2 ** -j;
+    this.hangoverSamples = Math.round(P56_HANGOVER_SECONDS * sampleRateHertz);
+    this.hangCounters.fill(this.hangoverSamples); // start "expired": nothing is active before the envelope rises
+    this.g = Math.exp(-1 / (sampleRateHertz * P56_ENVELOPE_SECONDS));
+  }
+
+  push(samples: Float64Array | Float32Array): void {
+    const { g, thresholds, activeCounts, hangCounters, hangoverSamples } = this;
+    let q = this.q;
+    let p = this.p;
+    for (let i = 0; i < samples.length; i++) {
+      q = g * q + (1 - g) * Math.abs(samples[i]);
+      p = g * p + (1 - g) * q;
+      for (let j = 0; j < LADDER_STEPS; j++) {
+        if (p >= thresholds[j]) {
+          activeCounts[j]++;
+          hangCounters[j] = 0;
+        } else if (hangCounters[j] < hangoverSamples) {
+          activeCounts[j]++;
+          hangCounters[j]++;
+        }
       }
     }
+    this.q = q;
+    this.p = p;
   }
 
-  // Walk from the lowest threshold (largest count, A − C large) upwards until A − C ≤ M.
-  let previousA = NaN;
-  let previousDelta = NaN;
-  let activeLevelDb = NaN;
-  for (let j = LADDER_STEPS - 1; j >= 0; j--) {
-    if (activeCounts[j] === 0) break;
-    const a = 10 * Math.log10(sumSquares / activeCounts[j]);
-    const delta = a - 20 * Math.log10(thresholds[j]);
-    if (delta <= P56_MARGIN_DB) {
-      if (Number.isNaN(previousDelta)) activeLevelDb = a; // even the lowest rung is within the margin
-      else {
-        const fraction = (previousDelta - P56_MARGIN_DB) / (previousDelta - delta);
-        activeLevelDb = previousA + fraction * (a - previousA);
+  /** The level from the counts and the first pass's energy. */
+  level(energy: SpeechEnergy): SpeechLevel {
+    const { thresholds, activeCounts } = this;
+    const { sumSquares, count: n } = energy;
+    const longTermRmsDb = 10 * Math.log10(sumSquares / n);
+    // Walk from the lowest threshold (largest count, A − C large) upwards until A − C ≤ M.
+    let previousA = NaN;
+    let previousDelta = NaN;
+    let activeLevelDb = NaN;
+    for (let j = LADDER_STEPS - 1; j >= 0; j--) {
+      if (activeCounts[j] === 0) break;
+      const a = 10 * Math.log10(sumSquares / activeCounts[j]);
+      const delta = a - 20 * Math.log10(thresholds[j]);
+      if (delta <= P56_MARGIN_DB) {
+        if (Number.isNaN(previousDelta)) activeLevelDb = a; // even the lowest rung is within the margin
+        else {
+          const fraction = (previousDelta - P56_MARGIN_DB) / (previousDelta - delta);
+          activeLevelDb = previousA + fraction * (a - previousA);
+        }
+        break;
       }
-      break;
+      previousA = a;
+      previousDelta = delta;
     }
-    previousA = a;
-    previousDelta = delta;
-  }
-  // No rung came within the margin (an isolated click): the highest active rung is the best estimate.
-  if (Number.isNaN(activeLevelDb)) activeLevelDb = Number.isNaN(previousA) ? longTermRmsDb : previousA;
+    // No rung came within the margin (an isolated click): the highest active rung is the best estimate.
+    if (Number.isNaN(activeLevelDb)) activeLevelDb = Number.isNaN(previousA) ? longTermRmsDb : previousA;
 
-  const activityFactor = Math.min(1, (sumSquares / n) / 10 ** (activeLevelDb / 10));
-  return { activeLevelDb, activityFactor, longTermRmsDb };
+    const activityFactor = Math.min(1, (sumSquares / n) / 10 ** (activeLevelDb / 10));
+    return { activeLevelDb, activityFactor, longTermRmsDb };
+  }
 }

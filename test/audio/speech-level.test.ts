@@ -1,6 +1,6 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { activeSpeechLevel, P56_HANGOVER_SECONDS } from '../../src/audio/speech-level.ts';
+import { activeSpeechLevel, activeSpeechLevelOf, P56_HANGOVER_SECONDS } from '../../src/audio/speech-level.ts';
 import { decodeWav } from '../../src/audio/wav-read.ts';
 import { InputError } from '../../src/errors.ts';
 import { SeededRandom } from '../../src/numeric/random.ts';
@@ -111,4 +111,47 @@ describe('bundled recordings (samples/speech, made by scripts/make-speech-sample
       expect(level.activeLevelDb).toBeLessThan(-15);
     });
   }
+});
+
+describe('activeSpeechLevelOf (the same measurement in two passes over chunks)', () => {
+  /** Runs the passes over `signal` cut into chunks of random length. */
+  const chunked = (signal: Float64Array, seed: number, maxChunk: number) => {
+    const rng = new SeededRandom(seed);
+    return (take: (chunk: Float64Array) => void): void => {
+      for (let at = 0; at < signal.length; ) {
+        const n = Math.min(signal.length - at, 1 + Math.floor(rng.uniform() * maxChunk));
+        take(signal.subarray(at, at + n));
+        at += n;
+      }
+    };
+  };
+
+  it('gives exactly activeSpeechLevel on the bundled speech, chunk sizes whatever', () => {
+    for (const name of ['bay-talkback.wav', 'bay-talkback-2.wav']) {
+      const wav = decodeWav(readFileSync(new URL(`../../samples/speech/${name}`, import.meta.url)), name);
+      const whole = activeSpeechLevel(wav.mono, 48000);
+      expect(activeSpeechLevelOf(48000, chunked(wav.mono, 1, 3000))).toEqual(whole);
+      expect(activeSpeechLevelOf(48000, chunked(wav.mono, 2, 50))).toEqual(whole);
+    }
+  });
+
+  it('gives exactly activeSpeechLevel on gated tones, noise, a click and silence', () => {
+    const rng = new SeededRandom(5);
+    const signals = [
+      tone(3, 440, 0.3, (t) => t % 1 < 0.4),
+      Float64Array.from({ length: 16000 }, () => rng.normal() * 0.01),
+      Float64Array.from({ length: 8000 }, (_, i) => (i === 4000 ? 1 : 0)),
+      new Float64Array(100),
+    ];
+    for (const [i, signal] of signals.entries()) {
+      expect(activeSpeechLevelOf(RATE, chunked(signal, i, 700))).toEqual(activeSpeechLevel(signal, RATE));
+    }
+  });
+
+  it('rejects an empty signal and names a non-finite sample by its index in the whole signal', () => {
+    expect(() => activeSpeechLevelOf(RATE, () => {})).toThrow(InputError);
+    const signal = new Float64Array(100);
+    signal[77] = Number.NaN;
+    expect(() => activeSpeechLevelOf(RATE, chunked(signal, 3, 10))).toThrow(/^samples\[77\]/);
+  });
 });
