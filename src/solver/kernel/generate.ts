@@ -254,12 +254,12 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
       emit(`if (within && !(Math.abs(n${k} - t${k}) <= ${literal(tol.relative)} * Math.max(Math.abs(n${k}), Math.abs(t${k})) + ${tolerance(k)})) within = false;`);
     }
   };
-  // Accepted when every unknown moved less than its tolerance or, on a time step, when every
-  // junction's linearisation is within the quadratic-acceptance bound at the new iterate:
-  // ½(Δv/nVT)² against its linearisation point. Both are always evaluated (no late first branch).
-  toleranceCheck();
-  emit('let worst = 0;');
-  if (tol.quadraticAcceptance > 0) {
+  // Accepted when, on a time step, every junction's linearisation is within the quadratic-acceptance
+  // bound at the new iterate (½(Δv/nVT)² against its linearisation point: it decides most steps and
+  // is the cheaper test), or else when every unknown moved less than its tolerance.
+  const quadratic = tol.quadraticAcceptance > 0 && (diodes.length > 0 || bjts.length > 0);
+  if (quadratic) {
+    emit('let worst = 0;');
     for (const { part, id } of diodes) {
       emit(`{ const d = (${x('n', part.junction)} - ${x('n', part.cathode)} - ${id}v) / ${literal(part.emissionVolts)}; const r = 0.5 * (d * d); if (r > worst) worst = r; }`);
     }
@@ -270,11 +270,12 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
       emit(`const bc = (${p} * (vb - ${x('n', part.collector)}) - ${id}bc) / ${literal(part.emissionVolts)};`);
       emit('const r = 0.5 * (be * be > bc * bc ? be * be : bc * bc); if (r > worst) worst = r; }');
     }
+    emit(`if (!limited && worst <= ${literal(tol.quadraticAcceptance)}) { ${all((k) => `t${k} = n${k};`)} converged = true; break; }`);
   }
+  toleranceCheck();
   emit(all((k) => `t${k} = n${k};`));
   emit('if (limited) continue;');
-  const quadratic = tol.quadraticAcceptance > 0 && (diodes.length > 0 || bjts.length > 0);
-  emit(`if (within${quadratic ? ` || worst <= ${literal(tol.quadraticAcceptance)}` : ''}) { converged = true; break; }`);
+  emit('if (within) { converged = true; break; }');
   emit('}'); // newton
   emit('if (!converged) break;');
   // Accept: capacitor histories, predictor points, output.
