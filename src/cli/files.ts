@@ -1,5 +1,7 @@
 import * as fs from 'node:fs';
 import * as path from 'node:path';
+import type { ByteReader } from '../audio/byte-reader.ts';
+import { WavFrameReader } from '../audio/wav-frame-reader.ts';
 import { InputError } from '../errors.ts';
 
 /** Reads a whole file; a missing or unreadable file is the user's error, named. */
@@ -12,6 +14,68 @@ export function readFileBytes(file: string, role: string): Uint8Array {
     if (error instanceof InputError) throw error;
     const code = (error as NodeJS.ErrnoException).code;
     throw new InputError(file, `a readable ${role} file`, code === 'ENOENT' ? 'no such file' : `cannot read it (${code ?? 'unknown error'})`);
+  }
+}
+
+/** Why a file cannot be opened or read, as the user's error. */
+function unreadable(file: string, role: string, error: unknown): InputError {
+  if (error instanceof InputError) return error;
+  const code = (error as NodeJS.ErrnoException).code;
+  return new InputError(file, `a readable ${role} file`, code === 'ENOENT' ? 'no such file' : `cannot read it (${code ?? 'unknown error'})`);
+}
+
+/**
+ * A file read by offset through a descriptor (the core's ByteReader), so a large
+ * input is never held whole. `read` returns a view of one reused buffer.
+ */
+export class FileByteReader implements ByteReader {
+  readonly byteLength: number;
+  private readonly descriptor: number;
+  private buffer = new Uint8Array(65536);
+
+  constructor(
+    readonly file: string,
+    private readonly role: string,
+  ) {
+    try {
+      const stat = fs.statSync(file);
+      if (stat.isDirectory()) throw new InputError(file, `a ${role} file`, 'this is a directory');
+      this.descriptor = fs.openSync(file, 'r');
+      this.byteLength = fs.fstatSync(this.descriptor).size;
+    } catch (error) {
+      throw unreadable(file, role, error);
+    }
+  }
+
+  /** Up to `length` bytes from `offset`; fewer only if the file has become shorter. */
+  read(offset: number, length: number): Uint8Array {
+    if (length > this.buffer.length) this.buffer = new Uint8Array(Math.max(length, 2 * this.buffer.length));
+    let got = 0;
+    try {
+      while (got < length) {
+        const n = fs.readSync(this.descriptor, this.buffer, got, length - got, offset + got);
+        if (n === 0) break;
+        got += n;
+      }
+    } catch (error) {
+      throw unreadable(this.file, this.role, error);
+    }
+    return this.buffer.subarray(0, got);
+  }
+
+  close(): void {
+    fs.closeSync(this.descriptor);
+  }
+}
+
+/** Opens a WAV file for streaming: the header is checked now, the frames are read on demand. */
+export function openWavFile(file: string): { frames: WavFrameReader; close: () => void } {
+  const reader = new FileByteReader(file, 'WAV');
+  try {
+    return { frames: new WavFrameReader(reader, file), close: () => reader.close() };
+  } catch (error) {
+    reader.close();
+    throw error;
   }
 }
 

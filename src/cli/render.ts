@@ -1,18 +1,16 @@
 import * as path from 'node:path';
 import { SingleBar } from 'cli-progress';
-import { decodeWav } from '../audio/wav-read.ts';
-import { encodeWav } from '../audio/wav-write.ts';
 import { InputError } from '../errors.ts';
 import { renderScenario, type RenderOptions } from '../link/chain/chain.ts';
 import { renderPipelined } from '../worker/node-pipeline.ts';
 import { availableParallelism } from 'node:os';
 import { summariseRender } from '../link/chain/summary.ts';
-import type { Recording } from '../link/chain/source.ts';
+import type { StreamedRecording } from '../link/chain/source-stream.ts';
 import { VOCAL_EFFORTS, type VocalEffort } from '../link/acoustics/sound-level.ts';
 import { loadScenarioText, settingsSummary } from '../scenario/index.ts';
 import type { Scenario } from '../scenario/types.ts';
 import { parseEngineering } from '../units/engineering.ts';
-import { AtomicFile, readFileBytes, readFileText, refuseInputOverwrite, writeFileAtomic } from './files.ts';
+import { AtomicFile, openWavFile, readFileText, refuseInputOverwrite, writeFileAtomic } from './files.ts';
 import { WavStreamEncoder } from '../audio/wav-stream.ts';
 
 export interface RenderFlags {
@@ -43,13 +41,31 @@ export async function runRender(scenarioFile: string, flags: RenderFlags, write:
     scenarioFile,
   );
   const adjusted = applyFlags(scenario, flags);
-  let recording: Recording | undefined;
+  // A recording is streamed from its file (any length in constant memory): calibrated by passes over it, then read chunk by chunk.
+  let streamedRecording: StreamedRecording | undefined;
+  let closeInput = (): void => {};
   if (adjusted.source.kind === 'recording') {
     const file = flags.input ?? path.resolve(base, adjusted.source.file);
     inputs.push(file);
-    const decoded = decodeWav(readFileBytes(file, 'WAV'), file);
-    recording = { samples: decoded.mono, sampleRateHertz: decoded.sampleRateHertz, label: file };
+    const opened = openWavFile(file);
+    streamedRecording = { frames: opened.frames, file };
+    closeInput = opened.close;
   }
+  try {
+    await renderToFiles(scenarioFile, adjusted, flags, inputs, streamedRecording, write);
+  } finally {
+    closeInput();
+  }
+}
+
+async function renderToFiles(
+  scenarioFile: string,
+  adjusted: Scenario,
+  flags: RenderFlags,
+  inputs: string[],
+  streamedRecording: StreamedRecording | undefined,
+  write: (text: string) => void,
+): Promise<void> {
   const format = flags.format ?? adjusted.output.format;
   if (format !== 'pcm16' && format !== 'float32') throw new InputError('--format', '"pcm16" or "float32"', `got "${format}"`);
   const outDir = flags.out ?? path.join('out', path.basename(scenarioFile).replace(/\.json$/i, ''));
@@ -61,7 +77,7 @@ export async function runRender(scenarioFile: string, flags: RenderFlags, write:
   const bar = flags.progress === false || !process.stderr.isTTY ? null : new SingleBar({ format: 'rendering [{bar}] {percentage}% | {eta}s left', hideCursor: true }, undefined);
   const startedMs = Date.now();
   let barStarted = false;
-  // The far end and the taps stream to their files as they are rendered (memory stays flat).
+  // The far end, the source and the taps stream to their files as they are rendered (memory stays flat).
   const writers = new Map<string, { file: AtomicFile; encoder: WavStreamEncoder; path: string }>();
   const open = (key: string, file: string, frames: number, rate: number, wavFormat: 'pcm16' | 'float32') => {
     const encoder = new WavStreamEncoder(frames, rate, wavFormat);
@@ -71,16 +87,25 @@ export async function runRender(scenarioFile: string, flags: RenderFlags, write:
   };
   const gain = 10 ** (adjusted.output.listeningGainDb / 20);
   const listening = new Float64Array(4096);
+  let sourcePeak = 0;
   let result: Awaited<ReturnType<typeof renderPipelined>>;
   try {
     const renderOptions: RenderOptions = {
-      recording,
+      streamedRecording,
       taps: flags.tap,
       onStart: (info) => {
         open('far-end', path.join(outDir, 'far-end.wav'), info.farEndSamples, info.sampleRateHertz, format);
         for (const tap of info.taps) {
           open(`tap:${tap.name}`, path.join(outDir, `tap-${tap.name.replace(/[^A-Za-z0-9_.-]+/g, '_')}.wav`), tap.samples, tap.sampleRateHertz, 'float32');
         }
+        // The peak is known before the run (the source is calibrated first), so source.wav can be normalised as it streams.
+        sourcePeak = Math.max(info.sourcePeakPascals, 1e-30);
+        open('source', path.join(outDir, 'source.wav'), info.farEndSamples, info.sampleRateHertz, 'float32');
+      },
+      onSource: (chunk) => {
+        const w = writers.get('source')!;
+        for (let i = 0; i < chunk.length; i++) chunk[i] = chunk[i] / sourcePeak;
+        w.file.write(w.encoder.encode(chunk));
       },
       onFarEnd: (chunk) => {
         const w = writers.get('far-end')!;
@@ -117,10 +142,6 @@ export async function runRender(scenarioFile: string, flags: RenderFlags, write:
   const files: Record<string, string> = {};
   for (const [key, w] of writers) files[key] = w.path;
   const farEnd = writers.get('far-end')!.encoder;
-  const sourceFile = path.join(outDir, 'source.wav');
-  const sourcePeak = result.sourcePascals.reduce((a, v) => Math.max(a, Math.abs(v)), 0);
-  writeFileAtomic(sourceFile, encodeWav(result.sourcePascals.map((v) => v / Math.max(sourcePeak, 1e-30)), adjusted.sampleRateHertz, 'float32').bytes, inputs);
-  files.source = sourceFile;
   const report = {
     ...result.report,
     farEnd: { ...result.report.farEnd, wavFormat: format, clippedSamples: farEnd.clippedSamples },
@@ -135,7 +156,7 @@ export async function runRender(scenarioFile: string, flags: RenderFlags, write:
   writeFileAtomic(reportFile, `${JSON.stringify(report, null, 2)}\n`, inputs);
   const lines = summariseRender(result.report);
   if (farEnd.clippedSamples > 0) lines.push(`Warning: ${farEnd.clippedSamples} far-end samples clipped in the ${format} WAV; lower output.listeningGain.`);
-  lines.push(`Files: ${outDir}/ (far-end.wav, source.wav, ${writers.size - 1} tap WAVs, report.json).`);
+  lines.push(`Files: ${outDir}/ (far-end.wav, source.wav, ${writers.size - 2} tap WAVs, report.json).`);
   write(`${lines.join('\n')}\n`);
 }
 

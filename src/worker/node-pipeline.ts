@@ -3,6 +3,10 @@
  * runs the transmitter stage (source to light) and streams the light to this
  * thread, which runs the receiver stage (light to far end) at the same time.
  * The output is identical to renderScenario's. Node APIs: the command line's shell.
+ *
+ * A streamed recording is calibrated here (passes over the file), then the worker
+ * opens the file itself and reads it chunk by chunk: no samples cross the threads
+ * but the source chunks that onSource asks for.
  */
 import { Worker, isMainThread, parentPort, workerData } from 'node:worker_threads';
 import { workerBootCode } from './node-boot.ts';
@@ -11,6 +15,9 @@ import { ReceiverStage, type ReceiverTiming } from '../link/chain/receiver-stage
 import { isReceiverTap } from '../link/chain/taps.ts';
 import { TransmitterStage, type TransmitterSummary } from '../link/chain/transmitter-stage.ts';
 import type { Recording } from '../link/chain/source.ts';
+import { calibrateRecording, type SourceCalibration, type SourceInput } from '../link/chain/source-stream.ts';
+import { InputError } from '../errors.ts';
+import { openWavFile } from '../cli/files.ts';
 import type { Scenario } from '../scenario/types.ts';
 import { errorFromData, errorToData, type ErrorData } from './jobs.ts';
 
@@ -22,31 +29,43 @@ interface StageRequest {
   role: typeof ROLE;
   scenario: Scenario;
   recording?: Recording;
+  /** A streamed recording: the worker opens the file and uses this calibration. */
+  streamed?: { file: string; calibration: SourceCalibration };
   taps: string[];
   solver: RenderOptions['solver'];
   chunkSamples?: number;
   streamTaps: boolean;
+  streamSource: boolean;
 }
 
 type StageMessage =
   | { type: 'start'; timing: ReceiverTiming; facts: TransmitterFacts; taps: Array<{ name: string; samples: number; sampleRateHertz: number }> }
   | { type: 'light'; m: number; light: Float64Array }
   | { type: 'tap'; name: string; block: Float32Array }
+  | { type: 'source'; chunk: Float64Array }
   | { type: 'done'; summary: TransmitterSummary }
   | { type: 'error'; error: ErrorData };
 
 /** Like renderScenario, with the transmitter and the receiver on two threads. */
-export function renderPipelined(scenario: Scenario, options: RenderOptions = {}): Promise<RenderResult> {
+export async function renderPipelined(scenario: Scenario, options: RenderOptions = {}): Promise<RenderResult> {
   const startedMs = Date.now();
   const tapNames = [...new Set([...scenario.taps, ...(options.taps ?? [])])];
+  let streamed: StageRequest['streamed'];
+  if (options.streamedRecording) {
+    const { frames, file, calibration } = options.streamedRecording;
+    if (file === undefined) throw new InputError('streamedRecording.file', 'the file a streamed recording reads (the transmitter thread opens it again)', 'none given');
+    streamed = { file, calibration: calibration ?? calibrateRecording(scenario.source, scenario.sampleRateHertz, frames) };
+  }
   const request: StageRequest = {
     role: ROLE,
     scenario,
-    recording: options.recording,
+    recording: streamed ? undefined : options.recording,
+    streamed,
     taps: tapNames.filter((n) => !isReceiverTap(n)),
     solver: options.solver,
     chunkSamples: options.chunkSamples,
     streamTaps: options.onTap !== undefined,
+    streamSource: options.onSource !== undefined,
   };
   const worker = new Worker(workerBootCode(import.meta.url), { eval: true, workerData: request });
   return new Promise<RenderResult>((resolve, reject) => {
@@ -81,6 +100,7 @@ export function renderPipelined(scenario: Scenario, options: RenderOptions = {})
             options.onStart?.({
               farEndSamples: timing.totalSamples,
               sampleRateHertz: timing.sampleRateHertz,
+              sourcePeakPascals: message.facts.source.peakPascals,
               taps: [
                 ...message.taps,
                 ...receiver.taps.map((c) => ({
@@ -100,6 +120,9 @@ export function renderPipelined(scenario: Scenario, options: RenderOptions = {})
             break;
           case 'tap':
             options.onTap?.(message.name, message.block);
+            break;
+          case 'source':
+            options.onSource?.(message.chunk);
             break;
           case 'done':
             finish(null, assembleResult(scenario, facts!, message.summary, receiver!.summary(), farEnd, startedMs, tapNames));
@@ -124,10 +147,18 @@ async function runTransmitterThread(request: StageRequest): Promise<void> {
     acknowledged++;
     waiting?.();
   });
+  let closeFile: (() => void) | null = null;
   try {
     const settings = stageSettings(request.scenario, { solver: request.solver, chunkSamples: request.chunkSamples });
     if (request.streamTaps) settings.onTap = (name, block) => port.postMessage({ type: 'tap', name, block: block.slice() } satisfies StageMessage);
-    const stage = new TransmitterStage(request.scenario, request.recording, settings, request.taps);
+    if (request.streamSource) settings.onSource = (chunk) => port.postMessage({ type: 'source', chunk } satisfies StageMessage, [chunk.buffer as ArrayBuffer]);
+    let input: SourceInput = request.recording;
+    if (request.streamed) {
+      const opened = openWavFile(request.streamed.file);
+      closeFile = opened.close;
+      input = { frames: opened.frames, calibration: request.streamed.calibration };
+    }
+    const stage = new TransmitterStage(request.scenario, input, settings, request.taps);
     const facts: TransmitterFacts = {
       source: stage.source,
       restingLedAmperes: stage.restingLedAmperes,
@@ -153,6 +184,8 @@ async function runTransmitterThread(request: StageRequest): Promise<void> {
     port.postMessage({ type: 'done', summary: stage.summary() } satisfies StageMessage);
   } catch (error) {
     port.postMessage({ type: 'error', error: errorToData(error) } satisfies StageMessage);
+  } finally {
+    closeFile?.();
   }
 }
 

@@ -5,12 +5,20 @@ import type { LinearAlgebra } from '../../solver/system.ts';
 import { ReceiverStage, type ReceiverSummary, type ReceiverTiming } from './receiver-stage.ts';
 import { buildReport, type RenderReport } from './report.ts';
 import type { Recording } from './source.ts';
+import type { StreamedRecording } from './source-stream.ts';
 import { isReceiverTap, type TapRecord } from './taps.ts';
 import { TransmitterStage, type StageSettings, type TransmitterSummary } from './transmitter-stage.ts';
 
 export interface RenderOptions {
   /** The decoded recording when the source is a recording. */
   recording?: Recording;
+  /**
+   * The recording as a stream instead (long inputs): calibrated by passes over it
+   * before the render, then read chunk by chunk; the result's sourcePascals is empty.
+   */
+  streamedRecording?: StreamedRecording;
+  /** Receives the calibrated source (pascals, audio rate) chunk by chunk as it is rendered (a fresh array each time). */
+  onSource?: (chunk: Float64Array) => void;
   /** Extra taps besides the scenario's own. */
   taps?: string[];
   /** Called now and then with the fraction done (0…1). */
@@ -20,7 +28,13 @@ export interface RenderOptions {
   /** Audio-rate samples per chunk. */
   chunkSamples?: number;
   /** Called once before processing: how many samples the far end and each tap will have. */
-  onStart?: (info: { farEndSamples: number; sampleRateHertz: number; taps: Array<{ name: string; samples: number; sampleRateHertz: number }> }) => void;
+  onStart?: (info: {
+    farEndSamples: number;
+    sampleRateHertz: number;
+    /** Largest |source pressure|, pascals (known before the run: the source is calibrated first). */
+    sourcePeakPascals: number;
+    taps: Array<{ name: string; samples: number; sampleRateHertz: number }>;
+  }) => void;
   /** Receives the far end chunk by chunk (volts, aligned); then the result's farEndVolts is empty. */
   onFarEnd?: (chunk: Float64Array) => void;
   /** Receives tap blocks as they fill; then the result's tap records are empty. */
@@ -60,7 +74,7 @@ export function renderScenario(scenario: Scenario, options: RenderOptions = {}):
   const startedMs = Date.now();
   const settings = stageSettings(scenario, options);
   const tapNames = [...new Set([...scenario.taps, ...(options.taps ?? [])])];
-  const transmitter = new TransmitterStage(scenario, options.recording, settings, tapNames.filter((n) => !isReceiverTap(n)));
+  const transmitter = new TransmitterStage(scenario, options.streamedRecording ?? options.recording, settings, tapNames.filter((n) => !isReceiverTap(n)));
   const timing = receiverTiming(transmitter);
   const total = transmitter.totalSamples;
   const farEnd = new Float64Array(options.onFarEnd ? 0 : total);
@@ -92,6 +106,7 @@ export function stageSettings(scenario: Scenario, options: RenderOptions): Stage
     substeps: substepsOf(options.solver?.substeps),
     chunkSamples: options.chunkSamples ?? 1024,
     onTap: options.onTap,
+    onSource: options.onSource,
   };
 }
 
@@ -134,6 +149,7 @@ function startInfo(transmitter: TransmitterStage, receiver: ReceiverStage): Para
   return {
     farEndSamples: total,
     sampleRateHertz: fs,
+    sourcePeakPascals: transmitter.source.peakPascals,
     taps: [...transmitter.taps, ...receiver.taps].map((c) => ({
       name: c.name,
       samples: c.sampleRateHertz === fs ? total : total * transmitter.factor,

@@ -68,18 +68,15 @@ export function buildReport(input: {
   solver: RenderReport['solver'];
 }): RenderReport {
   const { scenario, source, farEnd } = input;
-  let sourceSquares = 0;
-  let sourcePeak = 0;
-  for (const p of source.pascals) {
-    sourceSquares += p * p;
-    sourcePeak = Math.max(sourcePeak, Math.abs(p));
-  }
-  const n = Math.max(1, source.pascals.length);
+  // From the source's own figures: a streamed source holds no samples.
+  const sourceSquares = source.sumSquaresPascals;
+  const sourcePeak = source.peakPascals;
+  const n = Math.max(1, source.samples);
   const farRms = farEnd.rmsVolts;
   const farPeak = farEnd.peakVolts;
   const gain = scenario.output.listeningGainDb;
   return {
-    durationSeconds: source.pascals.length / scenario.sampleRateHertz,
+    durationSeconds: source.samples / scenario.sampleRateHertz,
     sampleRateHertz: scenario.sampleRateHertz,
     internalRateHertz: input.solver.internalRateHertz,
     microphone: {

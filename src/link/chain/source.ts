@@ -3,7 +3,7 @@ import { speechLike } from '../../audio/signals/speech-like.ts';
 import { expSweep } from '../../audio/signals/sweep.ts';
 import { tone } from '../../audio/signals/tone.ts';
 import { twoTone } from '../../audio/signals/two-tone.ts';
-import { activeSpeechLevel } from '../../audio/speech-level.ts';
+import { activeSpeechLevel, type SpeechLevel } from '../../audio/speech-level.ts';
 import { resample } from '../../audio/resample.ts';
 import { InputError } from '../../errors.ts';
 import type { SourceLevel, SourceSettings } from '../../scenario/types.ts';
@@ -21,7 +21,13 @@ export interface Recording {
 
 /** The sound pressure at the microphone, calibrated, at the chain's audio rate. */
 export interface CalibratedSource {
+  /** The samples; empty when the source is streamed (source-stream.ts) rather than held. */
   pascals: Float64Array;
+  /** How many samples the source has (pascals.length when held). */
+  samples: number;
+  /** Largest |pressure| and the sum of squared pressures over the whole source (for the report). */
+  peakPascals: number;
+  sumSquaresPascals: number;
   /** The level asked for, dB SPL. */
   targetDbSpl: number;
   /** How the level was measured: active speech level (ITU-T P.56) or plain rms. */
@@ -82,8 +88,7 @@ export function calibratedSource(settings: SourceSettings, sampleRateHertz: numb
   let activityFactor: number | null = null;
   if (speech) {
     const level = activeSpeechLevel(raw, sampleRateHertz);
-    if (!Number.isFinite(level.activeLevelDb)) throw new InputError('source', 'a recording with some sound in it', 'it is digital silence');
-    measuredRms = 10 ** (level.activeLevelDb / 20);
+    measuredRms = speechRms(level);
     activityFactor = level.activityFactor;
   } else {
     // The level of a test signal is its steady rms: the fades at the ends do not count.
@@ -95,6 +100,27 @@ export function calibratedSource(settings: SourceSettings, sampleRateHertz: numb
   }
   const gain = targetPascals / measuredRms;
   const pascals = new Float64Array(raw.length);
-  for (let i = 0; i < raw.length; i++) pascals[i] = raw[i] * gain;
-  return { pascals, targetDbSpl, levelMeasure: speech ? 'active-speech-level' : 'rms', activityFactor };
+  let sumSquaresPascals = 0;
+  let peakPascals = 0;
+  for (let i = 0; i < raw.length; i++) {
+    const p = raw[i] * gain;
+    pascals[i] = p;
+    sumSquaresPascals += p * p;
+    peakPascals = Math.max(peakPascals, Math.abs(p));
+  }
+  return {
+    pascals,
+    samples: pascals.length,
+    peakPascals,
+    sumSquaresPascals,
+    targetDbSpl,
+    levelMeasure: speech ? 'active-speech-level' : 'rms',
+    activityFactor,
+  };
+}
+
+/** The rms that speech is scaled by: its active level (P.56) as a linear rms. */
+export function speechRms(level: SpeechLevel): number {
+  if (!Number.isFinite(level.activeLevelDb)) throw new InputError('source', 'a recording with some sound in it', 'it is digital silence');
+  return 10 ** (level.activeLevelDb / 20);
 }

@@ -11,7 +11,8 @@ import { Decimator, Upsampler } from '../oversampler.ts';
 import { IntervalTracker, toEpisodes, type Episodes } from './intervals.ts';
 import { withMicrophoneResistance } from './rewire.ts';
 import { SubstepInput, substepHoldback } from './substep-input.ts';
-import { calibratedSource, type CalibratedSource, type Recording } from './source.ts';
+import type { CalibratedSource } from './source.ts';
+import { openSource, type PascalsReader, type SourceInput } from './source-stream.ts';
 import { TapCapture, resolveTap, type TapRecord } from './taps.ts';
 import { finishWatches, updateWatches, watchTransistors, type TransistorEpisodes, type TransistorWatch } from './transistor-watch.ts';
 
@@ -24,6 +25,8 @@ export interface StageSettings {
   chunkSamples: number;
   /** Receives tap blocks as they fill (then the tap records come back empty). */
   onTap?: (name: string, block: Float32Array) => void;
+  /** Receives the calibrated source (pascals) chunk by chunk as it is fed in. */
+  onSource?: (chunk: Float64Array) => void;
 }
 
 /** What either stage reports of its circuit's solver and its taps. */
@@ -94,6 +97,7 @@ export class TransmitterStage {
   private readonly cutoffAmperes: number;
   private readonly ledCutoff: IntervalTracker;
   private readonly watches: TransistorWatch[];
+  private readonly sourceReader: PascalsReader;
   private readonly pascals: Float64Array;
   private readonly micVolts: Float64Array;
   private readonly internal: Float64Array;
@@ -115,7 +119,7 @@ export class TransmitterStage {
 
   constructor(
     scenario: Scenario,
-    recording: Recording | undefined,
+    sourceInput: SourceInput,
     private readonly settings: StageSettings,
     tapNames: readonly string[],
   ) {
@@ -124,7 +128,9 @@ export class TransmitterStage {
     this.factor = scenario.oversampling;
     this.internalRateHertz = fs * this.factor;
     const h = 1 / this.internalRateHertz;
-    this.source = calibratedSource(scenario.source, fs, recording);
+    const opened = openSource(scenario.source, fs, sourceInput);
+    this.source = opened.calibrated;
+    this.sourceReader = opened.reader;
     this.microphone = new Microphone({ ...scenario.microphone, sampleRateHertz: fs });
     const t = scenario.transmitter;
     this.simulator = new Simulator(withMicrophoneResistance(t.circuit, t.inputSource, scenario.microphone.outputResistanceOhms), settings.solver);
@@ -170,7 +176,7 @@ export class TransmitterStage {
     this.substepInput = new SubstepInput(s.transmitter, holdback, 0, settings.chunkSamples * this.factor);
     this.upLatencyInternal = this.up.latencyInternalSamples;
     this.offsetSeconds = -this.upLatencyInternal * h;
-    this.totalSamples = this.source.pascals.length;
+    this.totalSamples = this.source.samples;
     this.ledCutoff = new IntervalTracker(h, this.offsetSeconds);
     this.watches = watchTransistors('transmitter', this.simulator, h, this.offsetSeconds);
 
@@ -223,9 +229,11 @@ export class TransmitterStage {
     const start = this.position;
     const n = Math.min(this.settings.chunkSamples, padded - start);
     const total = this.totalSamples;
-    const source = this.source.pascals;
     const inputs = this.pascals.subarray(0, n);
-    for (let i = 0; i < n; i++) inputs[i] = start + i < total ? source[start + i] : 0;
+    const real = Math.max(0, Math.min(n, total - start)); // source samples in this chunk; silence after them
+    this.sourceReader.read(inputs.subarray(0, real));
+    inputs.fill(0, real);
+    if (real > 0) this.settings.onSource?.(inputs.slice(0, real));
     const volts = this.micVolts.subarray(0, n);
     this.microphone.process(inputs, volts);
     for (const tap of this.taps) {
