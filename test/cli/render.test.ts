@@ -6,6 +6,8 @@ import { decodeWav } from '../../src/audio/wav-read.ts';
 import { encodeWav } from '../../src/audio/wav-write.ts';
 import { tone } from '../../src/audio/signals/tone.ts';
 import { main } from '../../src/cli/main.ts';
+import { renderScenario } from '../../src/link/chain/chain.ts';
+import { loadScenarioText } from '../../src/scenario/index.ts';
 
 /** A small link of our own (not a demo), written to a temporary folder as real files. */
 function writeLink(dir: string): string {
@@ -113,5 +115,56 @@ describe('glowtalk render', () => {
     const bad = await run(['render', scenario, '--effort', 'whisper', '--no-progress']);
     expect(bad.code).toBe(2);
     expect(bad.err).toMatch(/^glowtalk: --effort: .*expected normal, raised, loud, shout/);
+  });
+
+  it('streams a WAV input: one and two threads write the same far end and source.wav as a render of the decoded file', async () => {
+    const dir = mkdtempSync(join(tmpdir(), 'glowtalk-render-'));
+    const scenarioFile = writeLink(dir);
+    const input = join(dir, 'talk.wav');
+    const speech = decodeWav(readFileSync(new URL('../../samples/speech/bay-talkback.wav', import.meta.url)), 'speech');
+    writeFileSync(input, encodeWav(speech.mono.slice(20000, 30000), 48000, 'pcm16').bytes);
+    const files = (out: string) => ({ far: readFileSync(join(out, 'far-end.wav')), source: readFileSync(join(out, 'source.wav')) });
+    for (const workers of ['1', '2']) {
+      const r = await run(['render', scenarioFile, '--input', input, '--out', join(dir, `out${workers}`), '--spl', '85', '--format', 'float32', '--workers', workers, '--no-progress']);
+      expect(r.err).toBe('');
+      expect(r.code).toBe(0);
+    }
+    const one = files(join(dir, 'out1'));
+    expect(Buffer.compare(files(join(dir, 'out2')).far, one.far)).toBe(0);
+    expect(Buffer.compare(files(join(dir, 'out2')).source, one.source)).toBe(0);
+
+    // The same scenario rendered in memory from the decoded file (listening gain 0 dB: the WAV holds volts as float32).
+    const loaded = loadScenarioText(readFileSync(scenarioFile, 'utf8'), { readText: (f) => readFileSync(join(dir, f), 'utf8') }, scenarioFile);
+    const scenario = { ...loaded, source: { kind: 'recording' as const, file: input, level: { kind: 'spl' as const, dbSpl: 85 } } };
+    const decoded = decodeWav(readFileSync(input), input);
+    const held = renderScenario(scenario, { recording: { samples: decoded.mono, sampleRateHertz: 48000, label: input } });
+    expect(decodeWav(one.far, 'far').mono).toEqual(Float64Array.from(Float32Array.from(held.farEndVolts)));
+    const peak = held.sourcePascals.reduce((m, v) => Math.max(m, Math.abs(v)), 0);
+    expect(decodeWav(one.source, 'source').mono).toEqual(Float64Array.from(Float32Array.from(held.sourcePascals, (v) => v / peak)));
+    const report = JSON.parse(readFileSync(join(dir, 'out2', 'report.json'), 'utf8'));
+    expect(report.microphone.peakDbSpl).toBeCloseTo(held.report.microphone.peakDbSpl, 12);
+    expect(report.microphone.activityFactor).toBe(held.report.microphone.activityFactor);
+    expect(report.durationSeconds).toBe(10000 / 48000);
+  });
+
+  it('names the byte when the input WAV is truncated or its header claims more data than the file holds', async () => {
+    const dir = mkdtempSync(join(tmpdir(), 'glowtalk-render-'));
+    const scenario = writeLink(dir);
+    const bytes = encodeWav(tone({ sampleRateHertz: 44100, frequencyHertz: 500, peakAmplitude: 0.5, seconds: 0.1 }), 44100, 'pcm16').bytes;
+    const cut = join(dir, 'cut.wav');
+    writeFileSync(cut, bytes.slice(0, 1000));
+    const lying = join(dir, 'lying.wav');
+    const lie = bytes.slice();
+    new DataView(lie.buffer).setUint32(40, 8820 + 2, true); // 4410 frames of 2 bytes are there
+    writeFileSync(lying, lie);
+    for (const workers of ['1', '2']) {
+      const a = await run(['render', scenario, '--input', cut, '--out', join(dir, 'out'), '--workers', workers, '--no-progress']);
+      expect(a.code).toBe(2);
+      expect(a.err).toBe(`glowtalk: ${cut} byte 36: data chunk declares 8820 bytes but only 956 follow (file truncated); expected 8820 bytes of sample data\n`);
+      const b = await run(['render', scenario, '--input', lying, '--out', join(dir, 'out'), '--workers', workers, '--no-progress']);
+      expect(b.code).toBe(2);
+      expect(b.err).toMatch(/byte 36: data chunk declares 8822 bytes but only 8820 follow/);
+    }
+    expect(readdirSync(dir).filter((f) => f.startsWith('out'))).toEqual([]); // nothing written
   });
 });
