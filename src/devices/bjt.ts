@@ -4,7 +4,7 @@ import type { Integrator } from '../solver/integrator.ts';
 import type { KernelPart } from '../solver/kernel/plan.ts';
 import { Capacitor } from './capacitor.ts';
 import { JUNCTION_GMIN_SIEMENS, type Binder, type IterationContext, type PinCurrents, type ThreeTerminal } from './device.ts';
-import { JunctionPoint, conductingVolts, criticalVolts, evaluateJunction, limitJunctionStep } from './junction.ts';
+import { JunctionPoint, conductingVolts, criticalVolts, evaluateJunction, junctionLinearisationError, limitJunctionStep } from './junction.ts';
 import { Resistor, voltageAt } from './resistor.ts';
 import { DriveSignal } from './wave.ts';
 
@@ -176,9 +176,11 @@ export class Bjt implements ThreeTerminal {
   linearisationError(x: Float64Array): number {
     const p = this.polarity;
     const vb = voltageAt(x, this.b);
-    const be = (p * (vb - voltageAt(x, this.e)) - this.vbe) / this.emissionVolts;
-    const bc = (p * (vb - voltageAt(x, this.c)) - this.vbc) / this.emissionVolts;
-    return 0.5 * Math.max(be * be, bc * bc);
+    const n = this.emissionVolts;
+    return Math.max(
+      junctionLinearisationError(p * (vb - voltageAt(x, this.e)), this.vbe, n),
+      junctionLinearisationError(p * (vb - voltageAt(x, this.c)), this.vbc, n),
+    );
   }
 
   breakpoints(stopSeconds: number): number[] {

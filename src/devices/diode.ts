@@ -4,7 +4,7 @@ import type { Integrator } from '../solver/integrator.ts';
 import type { KernelPart } from '../solver/kernel/plan.ts';
 import { Capacitor } from './capacitor.ts';
 import { JUNCTION_GMIN_SIEMENS, type Binder, type IterationContext, type TwoTerminal } from './device.ts';
-import { JunctionPoint, criticalVolts, evaluateJunction, limitJunctionStep } from './junction.ts';
+import { JunctionPoint, criticalVolts, evaluateJunction, junctionLinearisationError, limitJunctionStep } from './junction.ts';
 import { Resistor, voltageAt } from './resistor.ts';
 
 /**
@@ -104,8 +104,7 @@ export class Diode implements TwoTerminal {
   }
 
   linearisationError(x: Float64Array): number {
-    const e = (voltageAt(x, this.junction) - voltageAt(x, this.cathode) - this.junctionVolts) / this.emissionVolts;
-    return 0.5 * e * e;
+    return junctionLinearisationError(voltageAt(x, this.junction) - voltageAt(x, this.cathode), this.junctionVolts, this.emissionVolts);
   }
 
   breakpoints(): number[] {

@@ -33,6 +33,18 @@ export function evaluateJunction(volts: number, saturationAmperes: number, emiss
 }
 
 /**
+ * How far a junction's linearisation at `linearisedVolts` is off at `volts`, as the relative
+ * error of its current, ½(Δv/nVT)² (the exponential's Taylor remainder). Zero when both lie
+ * below the exponent floor: there the model's current is the constant −Is, exactly linear.
+ */
+export function junctionLinearisationError(volts: number, linearisedVolts: number, emissionVolts: number): number {
+  const floor = EXPONENT_FLOOR * emissionVolts;
+  if (volts < floor && linearisedVolts < floor) return 0;
+  const d = (volts - linearisedVolts) / emissionVolts;
+  return 0.5 * d * d;
+}
+
+/**
  * Critical voltage above which Newton steps are limited:
  * Vcrit = n·VT·ln(n·VT / (√2·Is)) (Nagel, "SPICE2: A computer program to
  * simulate semiconductor circuits", UCB ERL-M520, 1975).

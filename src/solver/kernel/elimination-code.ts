@@ -22,7 +22,7 @@ export function eliminationCode(
   pool: ConstantPool,
   pivotThreshold: number,
   fail: string,
-): string[] {
+): EliminationCode {
   const out: string[] = [];
   /** Fixed value of each slot not (yet) a variable. */
   const fixed = new Map<number, number>();
@@ -44,7 +44,7 @@ export function eliminationCode(
     isVariable.add(slot);
   };
 
-  out.push('let pv = 0, c = 0, m = 0, bk = 0;');
+  out.push('let pv = 0, c = 0, m = 0;');
   let target = 0;
   for (let k = 0; k < program.size; k++) {
     const l0 = program.lowerStart[k];
@@ -99,22 +99,33 @@ export function eliminationCode(
       }
     }
   }
-  // Forward substitution (unit lower triangle), then back substitution.
-  for (let k = 0; k < program.size; k++) {
-    const l0 = program.lowerStart[k];
-    const l1 = program.lowerStart[k + 1];
-    if (l1 === l0) continue;
-    out.push(`bk = w${int(program.pivotRow[k])};`);
-    for (let q = l0; q < l1; q++) out.push(`w${int(program.lowerRow[q])} -= ${ref(program.lowerSlot[q])} * bk;`);
-  }
-  for (let k = program.size - 1; k >= 0; k--) {
-    const terms: string[] = [];
-    for (let up = program.upperStart[k]; up < program.upperStart[k + 1]; up++) {
-      terms.push(` - ${ref(program.upperSlot[up])} * n${int(program.upperCol[up])}`);
+  const solve = (): string[] => {
+    const lines: string[] = ['let bk = 0;'];
+    const at = ref;
+    // Forward substitution (unit lower triangle), then back substitution.
+    for (let k = 0; k < program.size; k++) {
+      const l0 = program.lowerStart[k];
+      const l1 = program.lowerStart[k + 1];
+      if (l1 === l0) continue;
+      lines.push(`bk = w${int(program.pivotRow[k])};`);
+      for (let q = l0; q < l1; q++) lines.push(`w${int(program.lowerRow[q])} -= ${at(program.lowerSlot[q])} * bk;`);
     }
-    out.push(`n${int(program.pivotCol[k])} = (w${int(program.pivotRow[k])}${terms.join('')}) / ${ref(program.pivotSlot[k])};`);
-  }
-  return out;
+    for (let k = program.size - 1; k >= 0; k--) {
+      const terms: string[] = [];
+      for (let up = program.upperStart[k]; up < program.upperStart[k + 1]; up++) {
+        terms.push(` - ${at(program.upperSlot[up])} * n${int(program.upperCol[up])}`);
+      }
+      lines.push(`n${int(program.pivotCol[k])} = (w${int(program.pivotRow[k])}${terms.join('')}) / ${at(program.pivotSlot[k])};`);
+    }
+    return lines;
+  };
+  return { factor: out, solve: solve() };
+}
+
+/** The elimination as code: the factorisation, then forward and back substitution. */
+export interface EliminationCode {
+  factor: string[];
+  solve: string[];
 }
 
 /** The elimination order does not suit the fixed entries (a fixed pivot too small): no kernel. */
