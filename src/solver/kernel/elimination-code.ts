@@ -63,8 +63,10 @@ export function eliminationCode(
     } else {
       out.push(`c = Math.abs(${ref(ps)});`);
       if (lowers.length > 0) {
-        out.push('m = 0;');
-        for (const s of lowers) out.push(`m = Math.max(m, Math.abs(${ref(s)}));`);
+        // The largest fixed entry below the pivot is known now; only the variable ones are looked at.
+        const fixedMax = lowers.reduce((a, s) => (isVariable.has(s) ? a : Math.max(a, Math.abs(value(s)))), 0);
+        out.push(`m = ${pool.ref(fixedMax)};`);
+        for (const s of lowers) if (isVariable.has(s)) out.push(`m = Math.max(m, Math.abs(v${int(s)}));`);
         out.push(`if (!(c > ${pool.ref(pivotThreshold)} * m) || c === 0) ${fail}`);
       } else {
         out.push(`if (c === 0 || c !== c) ${fail}`);
