@@ -254,16 +254,9 @@ export class Bjt implements ThreeTerminal {
     return classifyRegion(vbe > this.conductingVoltage, vbc > this.conductingVoltage);
   }
 
-  /**
-   * The region as a code without allocating (for per-step statistics):
-   * REGION_ACTIVE, REGION_SATURATION, REGION_CUTOFF or REGION_REVERSE.
-   */
-  regionCode(x: Float64Array): number {
-    const vb = voltageAt(x, this.b);
-    const p = this.polarity;
-    const emitterOn = p * (vb - voltageAt(x, this.e)) > this.conductingVoltage;
-    const collectorOn = p * (vb - voltageAt(x, this.c)) > this.conductingVoltage;
-    return emitterOn ? (collectorOn ? REGION_SATURATION : REGION_ACTIVE) : collectorOn ? REGION_REVERSE : REGION_CUTOFF;
+  /** Unknown indices of the (internal) collector, base and emitter (-1 = ground), and the polarity. */
+  get terminals(): { collector: number; base: number; emitter: number; polarity: number } {
+    return { collector: this.c, base: this.b, emitter: this.e, polarity: this.polarity };
   }
 
   /** The junction voltage above which this transistor's junctions count as conducting. */
@@ -271,11 +264,6 @@ export class Bjt implements ThreeTerminal {
     return this.conductingVoltage;
   }
 }
-
-export const REGION_ACTIVE = 0;
-export const REGION_SATURATION = 1;
-export const REGION_CUTOFF = 2;
-export const REGION_REVERSE = 3;
 
 export function classifyRegion(baseEmitterOn: boolean, baseCollectorOn: boolean): 'active' | 'saturation' | 'cutoff' | 'reverse' {
   if (baseEmitterOn) return baseCollectorOn ? 'saturation' : 'active';

@@ -1,4 +1,4 @@
-import { Bjt, REGION_CUTOFF, REGION_SATURATION } from '../../devices/bjt.ts';
+import { Bjt } from '../../devices/bjt.ts';
 import type { Simulator } from '../../solver/simulator.ts';
 import { IntervalTracker, toEpisodes, type Episodes } from './intervals.ts';
 
@@ -6,7 +6,13 @@ import { IntervalTracker, toEpisodes, type Episodes } from './intervals.ts';
 export interface TransistorWatch {
   circuit: 'transmitter' | 'receiver';
   ref: string;
-  device: Bjt;
+  /** Where its terminals sit in the solution (ground: the solution's last entry, always 0). */
+  collector: number;
+  base: number;
+  emitter: number;
+  polarity: number;
+  /** Junction voltage above which a junction counts as conducting (as `Bjt.region`). */
+  conductingVolts: number;
   saturation: IntervalTracker;
   cutoff: IntervalTracker;
 }
@@ -18,23 +24,39 @@ export function watchTransistors(
   samplePeriodSeconds: number,
   offsetSeconds: number,
 ): TransistorWatch[] {
+  const ground = simulator.system.size;
+  const at = (index: number): number => (index < 0 ? ground : index);
   return simulator.system.devices
     .filter((device): device is Bjt => device instanceof Bjt)
-    .map((device) => ({
-      circuit,
-      ref: device.ref,
-      device,
-      saturation: new IntervalTracker(samplePeriodSeconds, offsetSeconds),
-      cutoff: new IntervalTracker(samplePeriodSeconds, offsetSeconds),
-    }));
+    .map((device) => {
+      const t = device.terminals;
+      return {
+        circuit,
+        ref: device.ref,
+        collector: at(t.collector),
+        base: at(t.base),
+        emitter: at(t.emitter),
+        polarity: t.polarity,
+        conductingVolts: device.conductingJunctionVolts,
+        saturation: new IntervalTracker(samplePeriodSeconds, offsetSeconds),
+        cutoff: new IntervalTracker(samplePeriodSeconds, offsetSeconds),
+      };
+    });
 }
 
-/** Feeds sample `index` of solution x to every watch. */
+/**
+ * Feeds sample `index` of solution x (with x[size] = 0 for ground) to every watch: the same
+ * classification as `Bjt.region`, written out because it runs for every transistor at
+ * every internal sample.
+ */
 export function updateWatches(watches: readonly TransistorWatch[], index: number, x: Float64Array): void {
-  for (const w of watches) {
-    const region = w.device.regionCode(x);
-    w.saturation.update(index, region === REGION_SATURATION);
-    w.cutoff.update(index, region === REGION_CUTOFF);
+  for (let k = 0; k < watches.length; k++) {
+    const w = watches[k];
+    const vb = x[w.base];
+    const emitterOn = w.polarity * (vb - x[w.emitter]) > w.conductingVolts;
+    const collectorOn = w.polarity * (vb - x[w.collector]) > w.conductingVolts;
+    w.saturation.update(index, emitterOn && collectorOn);
+    w.cutoff.update(index, !emitterOn && !collectorOn);
   }
 }
 
