@@ -4,9 +4,12 @@
  * each circuit, Newton iterations per step, peak memory, the accuracy against a
  * reference run (8× smaller steps, tight Newton tolerance) and the speed ratio
  * to the straightforward path (dense elimination with partial pivoting every
- * iteration), and the figure for the whole machine with the transmitter and the
- * receiver on two threads. The last line is `realtime-factor: N` (one core).
+ * iteration), the figure for the whole machine with the transmitter and the
+ * receiver on two threads, and the time and peak memory of a streamed one-minute
+ * render (`npm run bench:long` for 10 and 60 minutes). The last line is
+ * `realtime-factor: N` (one core).
  */
+import { spawnSync } from 'node:child_process';
 import { readFileSync } from 'node:fs';
 import * as path from 'node:path';
 import { decodeWav } from '../src/audio/wav-read.ts';
@@ -72,4 +75,8 @@ const pipeStarted = performance.now();
 await renderPipelined(scenario, { recording });
 const pipeWall = (performance.now() - pipeStarted) / 1000;
 console.log(`whole machine, transmitter and receiver pipelined on two threads: ${pipeWall.toFixed(2)} s wall, real-time factor ${(duration / pipeWall).toFixed(2)}`);
+// Constant memory: a streamed one-minute render in a child process (bench:long runs 1, 10 and 60 minutes).
+const long = spawnSync(process.execPath, ['--import', 'tsx', 'bench/long-input.ts', '1'], { encoding: 'utf8' });
+const minute = long.stdout.split('\n').find((line) => line.trim().startsWith('1 min'));
+console.log(`streamed render of a one-minute recording (glowtalk render, child process): ${minute ? minute.trim().replace(/^1 min:\s*/, '') : `failed: ${long.stderr.trim().split('\n').pop()}`}; npm run bench:long for 10 and 60 minutes`);
 console.log(`realtime-factor: ${(duration / full.wall).toFixed(2)}`);
