@@ -195,13 +195,12 @@ export class Simulator {
    */
   runBlock(stepSeconds: number, drive: DriveSignal, inputs: Float64Array, from: number, to: number, firstStep: number, solutions: Float64Array): void {
     const n = this.system.size;
-    const count = to;
     let i = from;
-    while (i < count) {
+    while (i < to) {
       const kernel = this.readyKernel(stepSeconds, drive);
       if (kernel) {
-        i = this.runKernel(kernel, inputs, i, count, firstStep, solutions);
-        if (i >= count) break;
+        i = this.runKernel(kernel, inputs, i, to, firstStep, solutions);
+        if (i >= to) break;
       }
       drive.upstreamValue = inputs[i];
       this.step(stepSeconds, (firstStep + i) * stepSeconds);
