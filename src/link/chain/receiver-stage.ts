@@ -83,7 +83,7 @@ export class ReceiverStage {
     this.watches = watchTransistors('receiver', this.simulator, h, timing.offsetSeconds);
     const total = timing.totalSamples;
     this.taps = tapNames.map((name) => {
-      const tap = resolveTap(name, `taps: ${name}`, { receiver: this.simulator, ledRef: scenario.transmitter.led });
+      const tap = resolveTap(name, `taps: ${name}`, { receiver: this.simulator });
       return new TapCapture(
         name,
         tap.unit,

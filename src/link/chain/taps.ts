@@ -1,4 +1,3 @@
-import { Diode } from '../../devices/diode.ts';
 import { InputError } from '../../errors.ts';
 import { resolveProbe, type Probe } from '../../solver/probes.ts';
 import type { Simulator } from '../../solver/simulator.ts';
@@ -14,6 +13,8 @@ export interface TapRecord {
 /** Where a tap reads from. */
 export type TapSource =
   | { stage: 'source' | 'microphone' | 'speaker' | 'emitter' | 'detector' }
+  /** The signal LED's junction current (the transmitter works it out for the light anyway). */
+  | { stage: 'led' }
   | { stage: 'transmitter' | 'receiver'; probe: Probe };
 
 /** Named taps outside the circuits. */
@@ -97,7 +98,7 @@ export class TapCapture {
 export function resolveTap(
   name: string,
   where: string,
-  circuits: { transmitter?: Simulator; receiver?: Simulator; ledRef: string },
+  circuits: { transmitter?: Simulator; receiver?: Simulator },
 ): { source: TapSource; unit: TapRecord['unit']; internalRate: boolean } {
   const fixed = FIXED_TAPS[name];
   if (fixed) return { source: { stage: fixed.stage }, unit: fixed.unit, internalRate: fixed.stage === 'emitter' || fixed.stage === 'detector' };
@@ -107,9 +108,8 @@ export function resolveTap(
     const inner = name.slice(dot + 1);
     const simulator = circuits[stage];
     if (!simulator) throw new Error(`tap ${name} resolved on the wrong side of the link`);
-    const led = stage === 'transmitter' && inner === 'led' ? simulator.system.devicesByRef.get(circuits.ledRef) : undefined;
     // The junction current, which makes the light (the LED part's own current adds its capacitance's).
-    if (led instanceof Diode) return { source: { stage, probe: (x) => led.junctionCurrent(x) }, unit: 'A', internalRate: true };
+    if (stage === 'transmitter' && inner === 'led') return { source: { stage: 'led' }, unit: 'A', internalRate: true };
     const probe = resolveProbe(simulator, inner, where);
     const isNode = simulator.system.nodeIndex(inner) !== undefined;
     return { source: { stage, probe }, unit: isNode ? 'V' : 'A', internalRate: true };

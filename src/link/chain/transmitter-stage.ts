@@ -86,6 +86,7 @@ export class TransmitterStage {
   readonly taps: TapCapture[];
   /** The taps that read the transmitter circuit (found once, not per chunk). */
   private readonly circuitTaps: TapCapture[];
+  private readonly ledTaps: TapCapture[];
   private readonly tapsReadDevices: boolean;
   private readonly simulator: Simulator;
   private readonly microphone: Microphone;
@@ -182,7 +183,7 @@ export class TransmitterStage {
 
     const total = this.totalSamples;
     this.taps = tapNames.map((name) => {
-      const tap = resolveTap(name, `taps: ${name}`, { transmitter: this.simulator, ledRef: t.led });
+      const tap = resolveTap(name, `taps: ${name}`, { transmitter: this.simulator });
       return new TapCapture(
         name,
         tap.unit,
@@ -195,6 +196,7 @@ export class TransmitterStage {
     });
 
     this.circuitTaps = this.taps.filter((t) => t.source.stage === 'transmitter');
+    this.ledTaps = this.taps.filter((t) => t.source.stage === 'led');
     this.tapsReadDevices = this.circuitTaps.some((t) => 'probe' in t.source && t.source.probe.readsDeviceState === true);
     const chunk = settings.chunkSamples;
     this.pascals = new Float64Array(chunk);
@@ -272,6 +274,7 @@ export class TransmitterStage {
     const firstKept = this.upLatencyInternal;
     const lastKept = firstKept + this.totalSamples * this.factor;
     const circuitTaps = this.circuitTaps;
+    const ledTaps = this.ledTaps;
     // Hot loop: state in locals, written back at the end.
     let step = this.step;
     let ledMin = this.ledMin;
@@ -297,6 +300,7 @@ export class TransmitterStage {
         ledCount++;
       }
       updateWatches(watches, index, x);
+      for (const tap of ledTaps) tap.push(amperes);
       for (const tap of circuitTaps) tap.push((tap.source as { probe: (x: Float64Array) => number }).probe(x));
     }
     this.step = step;
