@@ -1,10 +1,10 @@
 import { EXPONENT_FLOOR, EXPONENT_LIMIT } from '../../devices/junction.ts';
-import type { ConstantPool } from './literals.ts';
+import { int, type ConstantPool } from './literals.ts';
 import type { JunctionParameters } from './plan.ts';
 
 /**
  * Code that evaluates a junction's current `amperes` and conductance `siemens`
- * (declared as consts) at voltage variable `volts`, as `evaluateJunction` does:
+ * (declared here) at voltage variable `volts`, as `evaluateJunction` does:
  * straight-line continuation above the exponent limit, and no exponential at all
  * for a strongly reverse-biased junction.
  */
@@ -15,8 +15,8 @@ export function junctionCode(pool: ConstantPool, volts: string, amperes: string,
   return [
     `let ${amperes} = -${is}, ${siemens} = 0;`,
     `{ const x = ${volts} / ${nvt};`,
-    `if (x > ${EXPONENT_LIMIT}) { ${amperes} = ${is} * (${pool.ref(expAtLimit)} * (1 + x - ${EXPONENT_LIMIT}) - 1); ${siemens} = ${pool.ref(j.saturationAmperes * expAtLimit)} / ${nvt}; }`,
-    `else if (x >= ${EXPONENT_FLOOR}) { const e = Math.exp(x); ${amperes} = ${is} * (e - 1); ${siemens} = (${is} * e) / ${nvt}; } }`,
+    `if (x > ${int(EXPONENT_LIMIT)}) { ${amperes} = ${is} * (${pool.ref(expAtLimit)} * (1 + x - ${int(EXPONENT_LIMIT)}) - 1); ${siemens} = ${pool.ref(j.saturationAmperes * expAtLimit)} / ${nvt}; }`,
+    `else if (x >= ${int(EXPONENT_FLOOR)}) { const e = Math.exp(x); ${amperes} = ${is} * (e - 1); ${siemens} = (${is} * e) / ${nvt}; } }`,
   ].join('\n');
 }
 

@@ -1,13 +1,8 @@
 /**
- * Generated code is built only from numbers and fixed identifiers, never from
- * text in user files: these turn numbers into literals and refuse anything else.
+ * Generated code is built only from integers and fixed identifiers, never from
+ * text in user files: indices go in as integer literals (refusing anything else),
+ * every other number through the constant pool.
  */
-
-/** A finite number as a JavaScript literal (negative numbers in parentheses). */
-export function literal(value: number): string {
-  if (typeof value !== 'number' || !Number.isFinite(value)) throw new Error(`generated code takes finite numbers only, got ${String(value)}`);
-  return value < 0 || Object.is(value, -0) ? `(${String(value)})` : String(value);
-}
 
 /** An integer as a JavaScript literal. */
 export function int(value: number): string {
