@@ -58,6 +58,14 @@ export async function runRender(scenarioFile: string, flags: RenderFlags, write:
   }
 }
 
+/** A duration for people: "12.3 s", "4 min 05 s", "1 h 02 min". */
+function formatDuration(seconds: number): string {
+  if (seconds < 60) return `${seconds.toFixed(1)} s`;
+  const minutes = Math.floor(seconds / 60);
+  if (minutes < 60) return `${minutes} min ${String(Math.floor(seconds - 60 * minutes)).padStart(2, '0')} s`;
+  return `${Math.floor(minutes / 60)} h ${String(minutes % 60).padStart(2, '0')} min`;
+}
+
 async function renderToFiles(
   scenarioFile: string,
   adjusted: Scenario,
@@ -77,6 +85,11 @@ async function renderToFiles(
   const bar = flags.progress === false || !process.stderr.isTTY ? null : new SingleBar({ format: 'rendering [{bar}] {percentage}% | {eta}s left', hideCursor: true }, undefined);
   const startedMs = Date.now();
   let barStarted = false;
+  if (bar && streamedRecording) {
+    // Two passes over the file come first, with nothing else to show for a long recording.
+    const seconds = streamedRecording.frames.frames / streamedRecording.frames.sampleRateHertz;
+    process.stderr.write(`measuring the level of ${path.basename(streamedRecording.file ?? streamedRecording.frames.label)} (${formatDuration(seconds)} of audio)…\n`);
+  }
   // The far end, the source and the taps stream to their files as they are rendered (memory stays flat).
   const writers = new Map<string, { file: AtomicFile; encoder: WavStreamEncoder; path: string }>();
   const open = (key: string, file: string, frames: number, rate: number, wavFormat: 'pcm16' | 'float32') => {
