@@ -4,8 +4,8 @@ import { bytesReader, type ByteReader } from '../../src/audio/byte-reader.ts';
 import { WavFrameReader } from '../../src/audio/wav-frame-reader.ts';
 import { decodeWav } from '../../src/audio/wav-read.ts';
 import { encodeWav, WAV_SAMPLE_FORMATS } from '../../src/audio/wav-write.ts';
-import { InputError } from '../../src/errors.ts';
 import { SeededRandom } from '../../src/numeric/random.ts';
+import { inputErrorOf } from '../helpers/input-error.ts';
 
 /** Reads all frames in chunks of random length and joins them. */
 function readAll(reader: WavFrameReader, rng: SeededRandom, maxChunk: number): Float64Array {
@@ -21,15 +21,6 @@ function readAll(reader: WavFrameReader, rng: SeededRandom, maxChunk: number): F
   return out;
 }
 
-function errorOf(action: () => unknown): InputError {
-  try {
-    action();
-  } catch (error) {
-    if (error instanceof InputError) return error;
-    throw error;
-  }
-  throw new Error('expected an InputError');
-}
 
 describe('WavFrameReader', () => {
   const rng = new SeededRandom(31);
@@ -62,8 +53,8 @@ describe('WavFrameReader', () => {
   describe('bad input gives the same InputError as decodeWav, naming the byte', () => {
     const good = encodeWav(new Float64Array(44100).fill(0.25), 44100, 'pcm16').bytes; // 88200 data bytes at byte 44
     const same = (bytes: Uint8Array): void => {
-      const expected = errorOf(() => decodeWav(bytes, 'cut.wav')).message;
-      expect(errorOf(() => new WavFrameReader(bytesReader(bytes), 'cut.wav')).message).toBe(expected);
+      const expected = inputErrorOf(() => decodeWav(bytes, 'cut.wav')).message;
+      expect(inputErrorOf(() => new WavFrameReader(bytesReader(bytes), 'cut.wav')).message).toBe(expected);
     };
 
     it('a truncated file (header and part of the samples)', () => {
@@ -71,14 +62,14 @@ describe('WavFrameReader', () => {
       same(good.slice(0, 30));
       same(good.slice(0, 40));
       same(good.slice(0, 44 + 1000));
-      expect(errorOf(() => new WavFrameReader(bytesReader(good.slice(0, 44 + 1000)), 'cut.wav')).where).toBe('cut.wav byte 36');
+      expect(inputErrorOf(() => new WavFrameReader(bytesReader(good.slice(0, 44 + 1000)), 'cut.wav')).where).toBe('cut.wav byte 36');
     });
 
     it('a header that claims more data than the file holds', () => {
       const lying = good.slice();
       new DataView(lying.buffer).setUint32(40, 88200 + 2, true);
       same(lying);
-      expect(errorOf(() => new WavFrameReader(bytesReader(lying), 'cut.wav')).message).toMatch(/^cut\.wav byte 36: data chunk declares 88202 bytes but only 88200 follow/);
+      expect(inputErrorOf(() => new WavFrameReader(bytesReader(lying), 'cut.wav')).message).toMatch(/^cut\.wav byte 36: data chunk declares 88202 bytes but only 88200 follow/);
     });
 
     it('a non-finite float sample far into the file, with its byte offset', () => {
@@ -87,8 +78,8 @@ describe('WavFrameReader', () => {
       const dataAt = bytes.length - 4 * 50_000; // header length of this writer
       new DataView(bytes.buffer).setFloat32(dataAt + 4 * 40_000, Number.POSITIVE_INFINITY, true);
       const reader = new WavFrameReader(bytesReader(bytes), 'f.wav');
-      const expected = errorOf(() => decodeWav(bytes, 'f.wav'));
-      const error = errorOf(() => readAll(reader, rng, 10_000));
+      const expected = inputErrorOf(() => decodeWav(bytes, 'f.wav'));
+      const error = inputErrorOf(() => readAll(reader, rng, 10_000));
       expect(error.message).toBe(expected.message);
       expect(error.where).toBe(`f.wav byte ${dataAt + 160_000}`);
     });
@@ -99,7 +90,7 @@ describe('WavFrameReader', () => {
         read: (offset, length) => good.subarray(offset, Math.min(offset + length, 44 + 5000)),
       };
       const reader = new WavFrameReader(shrinking, 'cut.wav');
-      const error = errorOf(() => reader.read(new Float64Array(44100)));
+      const error = inputErrorOf(() => reader.read(new Float64Array(44100)));
       expect(error.where).toBe('cut.wav byte 5044');
     });
   });

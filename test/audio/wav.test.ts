@@ -3,8 +3,8 @@ import * as wavefileNs from 'wavefile';
 import { decodeWav } from '../../src/audio/wav-read.ts';
 import { encodeWav, WAV_SAMPLE_FORMATS, type WavSampleFormat } from '../../src/audio/wav-write.ts';
 import { WavStreamEncoder } from '../../src/audio/wav-stream.ts';
-import { InputError } from '../../src/errors.ts';
 import { SeededRandom } from '../../src/numeric/random.ts';
+import { inputErrorOf } from '../helpers/input-error.ts';
 
 // eslint-disable-next-line @typescript-eslint/no-explicit-any
 const WaveFile = (wavefileNs as any).WaveFile ?? (wavefileNs as any).default.WaveFile;
@@ -52,15 +52,6 @@ function fmtBody(code: number, channels: number, rate: number, bits: number, sub
 }
 const le = (array: Int16Array | Int32Array | Float32Array | Float64Array): Uint8Array => new Uint8Array(array.buffer);
 
-function errorOf(action: () => unknown): InputError {
-  try {
-    action();
-  } catch (error) {
-    if (error instanceof InputError) return error;
-    throw error;
-  }
-  throw new Error('expected an InputError');
-}
 
 describe('decodeWav', () => {
   it('maps 16-bit codes c to c/32768 (full negative scale is exactly −1)', () => {
@@ -150,37 +141,37 @@ describe('decodeWav', () => {
 
     it('a file that is not WAVE', () => {
       const text = new TextEncoder().encode('Control, bay two is clear.\n');
-      expect(errorOf(() => decodeWav(text, 'notes.txt')).message).toBe('notes.txt byte 0: found "Cont"; not a WAVE file; expected "RIFF"');
+      expect(inputErrorOf(() => decodeWav(text, 'notes.txt')).message).toBe('notes.txt byte 0: found "Cont"; not a WAVE file; expected "RIFF"');
     });
     it('a zero-length file', () => {
-      expect(errorOf(() => decodeWav(new Uint8Array(0), 'empty.wav')).message).toBe('empty.wav byte 0: the file is empty (0 bytes); expected "RIFF"');
+      expect(inputErrorOf(() => decodeWav(new Uint8Array(0), 'empty.wav')).message).toBe('empty.wav byte 0: the file is empty (0 bytes); expected "RIFF"');
     });
     it('a truncated header', () => {
-      expect(errorOf(() => decodeWav(good.slice(0, 10), 'cut.wav')).message).toMatch(/^cut\.wav byte 10: the file ends after 10 bytes \(truncated header\)/);
-      expect(errorOf(() => decodeWav(good.slice(0, 30), 'cut.wav')).message).toMatch(/^cut\.wav byte 12: .*"fmt " chunk.*only 10 follow \(file truncated\)/);
-      expect(errorOf(() => decodeWav(good.slice(0, 40), 'cut.wav')).message).toBe('cut.wav byte 36: the file ends without one (header only); expected a "data" chunk');
+      expect(inputErrorOf(() => decodeWav(good.slice(0, 10), 'cut.wav')).message).toMatch(/^cut\.wav byte 10: the file ends after 10 bytes \(truncated header\)/);
+      expect(inputErrorOf(() => decodeWav(good.slice(0, 30), 'cut.wav')).message).toMatch(/^cut\.wav byte 12: .*"fmt " chunk.*only 10 follow \(file truncated\)/);
+      expect(inputErrorOf(() => decodeWav(good.slice(0, 40), 'cut.wav')).message).toBe('cut.wav byte 36: the file ends without one (header only); expected a "data" chunk');
     });
     it('a data chunk longer than the file', () => {
-      expect(errorOf(() => decodeWav(good.slice(0, 44 + 1000), 'song.wav')).message).toBe(
+      expect(inputErrorOf(() => decodeWav(good.slice(0, 44 + 1000), 'song.wav')).message).toBe(
         'song.wav byte 36: data chunk declares 88200 bytes but only 1000 follow (file truncated); expected 88200 bytes of sample data',
       );
     });
     it('an unsupported format code, zero channels, a zero sample rate, odd sizes', () => {
       const data = chunk('data', new Uint8Array(4));
-      expect(errorOf(() => decodeWav(riff(chunk('fmt ', fmtBody(6, 1, 8000, 8)), data), 'x.wav')).message).toBe(
+      expect(inputErrorOf(() => decodeWav(riff(chunk('fmt ', fmtBody(6, 1, 8000, 8)), data), 'x.wav')).message).toBe(
         'x.wav byte 20: unsupported format code 0x0006 (A-law); expected format code 1 (PCM) or 3 (IEEE float)',
       );
-      expect(errorOf(() => decodeWav(riff(chunk('fmt ', fmtBody(1, 0, 8000, 16)), data), 'x.wav')).where).toBe('x.wav byte 22');
-      expect(errorOf(() => decodeWav(riff(chunk('fmt ', fmtBody(1, 1, 0, 16)), data), 'x.wav')).message).toBe(
+      expect(inputErrorOf(() => decodeWav(riff(chunk('fmt ', fmtBody(1, 0, 8000, 16)), data), 'x.wav')).where).toBe('x.wav byte 22');
+      expect(inputErrorOf(() => decodeWav(riff(chunk('fmt ', fmtBody(1, 1, 0, 16)), data), 'x.wav')).message).toBe(
         'x.wav byte 24: the file declares 0 Hz; expected a sample rate above 0 Hz',
       );
-      expect(errorOf(() => decodeWav(riff(chunk('fmt ', fmtBody(1, 1, 8000, 12)), data), 'x.wav')).where).toBe('x.wav byte 34');
-      expect(errorOf(() => decodeWav(riff(chunk('fmt ', fmtBody(1, 1, 8000, 16)), chunk('data', new Uint8Array(3))), 'x.wav')).expected).toMatch(/whole number of 2-byte frames/);
-      expect(errorOf(() => decodeWav(riff(chunk('fmt ', fmtBody(1, 1, 8000, 16)), chunk('data', new Uint8Array(0))), 'x.wav')).message).toBe(
+      expect(inputErrorOf(() => decodeWav(riff(chunk('fmt ', fmtBody(1, 1, 8000, 12)), data), 'x.wav')).where).toBe('x.wav byte 34');
+      expect(inputErrorOf(() => decodeWav(riff(chunk('fmt ', fmtBody(1, 1, 8000, 16)), chunk('data', new Uint8Array(3))), 'x.wav')).expected).toMatch(/whole number of 2-byte frames/);
+      expect(inputErrorOf(() => decodeWav(riff(chunk('fmt ', fmtBody(1, 1, 8000, 16)), chunk('data', new Uint8Array(0))), 'x.wav')).message).toBe(
         'x.wav byte 36: the data chunk is empty; expected at least one sample frame',
       );
       const nan = le(new Float32Array([0, Number.NaN]));
-      expect(errorOf(() => decodeWav(riff(chunk('fmt ', fmtBody(3, 1, 8000, 32)), chunk('data', nan)), 'x.wav')).where).toBe('x.wav byte 48');
+      expect(inputErrorOf(() => decodeWav(riff(chunk('fmt ', fmtBody(3, 1, 8000, 32)), chunk('data', nan)), 'x.wav')).where).toBe('x.wav byte 48');
     });
   });
 });
@@ -279,11 +270,11 @@ describe('encodeWav', () => {
   });
 
   it('rejects non-finite samples, a bad rate, mismatched channels and empty input', () => {
-    expect(errorOf(() => encodeWav(new Float64Array([0, Number.NaN]), 8000, 'pcm16')).where).toBe('samples[0][1]');
-    expect(errorOf(() => encodeWav(new Float64Array(2), 44100.5, 'pcm16')).where).toBe('sampleRateHertz');
-    expect(errorOf(() => encodeWav([new Float64Array(2), new Float64Array(3)], 8000, 'pcm16')).where).toBe('samples[1]');
-    expect(errorOf(() => encodeWav(new Float64Array(0), 8000, 'pcm16')).expected).toBe('at least one sample frame');
-    expect(errorOf(() => encodeWav(new Float64Array(2), 8000, 'mp3' as WavSampleFormat)).where).toBe('format');
+    expect(inputErrorOf(() => encodeWav(new Float64Array([0, Number.NaN]), 8000, 'pcm16')).where).toBe('samples[0][1]');
+    expect(inputErrorOf(() => encodeWav(new Float64Array(2), 44100.5, 'pcm16')).where).toBe('sampleRateHertz');
+    expect(inputErrorOf(() => encodeWav([new Float64Array(2), new Float64Array(3)], 8000, 'pcm16')).where).toBe('samples[1]');
+    expect(inputErrorOf(() => encodeWav(new Float64Array(0), 8000, 'pcm16')).expected).toBe('at least one sample frame');
+    expect(inputErrorOf(() => encodeWav(new Float64Array(2), 8000, 'mp3' as WavSampleFormat)).where).toBe('format');
   });
 });
 

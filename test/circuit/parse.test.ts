@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { parseCircuit, parseCircuitText } from '../../src/circuit/parse.ts';
 import { BUILT_IN_MODELS } from '../../src/circuit/models.ts';
 import type { Circuit } from '../../src/circuit/types.ts';
-import { InputError } from '../../src/errors.ts';
+import { inputErrorOf } from '../helpers/input-error.ts';
 
 const FORMAT = 'glowtalk.circuit/1';
 const R_TO_GND = { ref: 'R9', kind: 'resistor', pins: ['a', 'gnd'], value: 1000 };
@@ -12,15 +12,6 @@ function file(parts: unknown[], extra: Record<string, unknown> = {}): Record<str
   return { format: FORMAT, parts: [...parts, R_TO_GND], ...extra };
 }
 
-function inputErrorOf(run: () => unknown): InputError {
-  try {
-    run();
-  } catch (error) {
-    expect(error).toBeInstanceOf(InputError);
-    return error as InputError;
-  }
-  throw new Error('expected an InputError, but parsing succeeded');
-}
 
 describe('parseCircuit', () => {
   it('maps every part kind, fills documented defaults and resolves built-in models', () => {

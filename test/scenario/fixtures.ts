@@ -1,7 +1,5 @@
 /** Small scenario objects for the scenario tests: tiny circuits, every block written out. */
-import { InputError } from '../../src/errors.ts';
 import type { ScenarioResolver } from '../../src/scenario/load.ts';
-import { expect } from 'vitest';
 
 /** LED in the collector of an NPN stage whose base the microphone drives through C1. */
 export function transmitterCircuit(): Record<string, unknown> {
@@ -100,12 +98,4 @@ export function filesResolver(files: Record<string, string>): ScenarioResolver &
 
 export const FILES = { 'circuits/rx.json': JSON.stringify(receiverCircuit(), null, 2) };
 
-export function inputErrorOf(run: () => unknown): InputError {
-  try {
-    run();
-  } catch (error) {
-    expect(error).toBeInstanceOf(InputError);
-    return error as InputError;
-  }
-  throw new Error('expected an InputError, but it succeeded');
-}
+export { inputErrorOf } from '../helpers/input-error.ts';
