@@ -204,7 +204,7 @@ export class Simulator {
       }
       drive.upstreamValue = inputs[i];
       this.step(stepSeconds, (firstStep + i) * stepSeconds);
-      solutions.set(this.x.subarray(0, n), i * n);
+      copyInto(solutions, i * n, this.x, 0, n);
       i++;
     }
     if (to > from) drive.upstreamValue = inputs[to - 1];
@@ -232,9 +232,9 @@ export class Simulator {
     const n = this.system.size;
     const s = kernel.state;
     const layout = kernel.layout;
-    s.set(this.x.subarray(0, n), layout.solution);
-    s.set(this.previous.subarray(0, n), layout.previous);
-    s.set(this.older.subarray(0, n), layout.older);
+    copyInto(s, layout.solution, this.x, 0, n);
+    copyInto(s, layout.previous, this.previous, 0, n);
+    copyInto(s, layout.older, this.older, 0, n);
     // The kernel extrapolates over equal steps only.
     s[layout.history] = this.olderStepSeconds === kernel.stepSeconds ? this.history : Math.min(this.history, 1);
     s[layout.predict] = this.predict ? 1 : 0;
@@ -244,9 +244,9 @@ export class Simulator {
     kernel.storeParts();
     this.newton.totalIterations += s[layout.iterations];
     if (done === from) return done;
-    this.x.set(s.subarray(layout.solution, layout.solution + n));
-    this.previous.set(s.subarray(layout.previous, layout.previous + n));
-    this.older.set(s.subarray(layout.older, layout.older + n));
+    copyInto(this.x, 0, s, layout.solution, n);
+    copyInto(this.previous, 0, s, layout.previous, n);
+    copyInto(this.older, 0, s, layout.older, n);
     this.history = s[layout.history];
     this.predict = s[layout.predict] === 1;
     this.olderStepSeconds = this.lastStepSeconds = kernel.stepSeconds;
@@ -269,4 +269,9 @@ export class Simulator {
       part,
     );
   }
+}
+
+/** Copies `count` values from `from[at…]` to `to[offset…]` without making a view (this runs once per step on the general loop). */
+function copyInto(to: Float64Array, offset: number, from: Float64Array, at: number, count: number): void {
+  for (let k = 0; k < count; k++) to[offset + k] = from[at + k];
 }

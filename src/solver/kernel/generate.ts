@@ -71,6 +71,8 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
   const voltage = (prefix: string, k: number): string => (k < 0 ? '0' : `${prefix}${int(k)}`);
   const slot = (row: number, col: number): number => (row < 0 || col < 0 ? 0 : spec.slotOf(row, col));
   const all = (f: (k: number) => string): string => Array.from({ length: n }, (_, k) => f(k)).join(' ');
+  /** One declaration list over the unknowns: `let a0 = …, a1 = …;`. */
+  const declare = (f: (k: number) => string): string => `let ${Array.from({ length: n }, (_, k) => f(k)).join(', ')};`;
 
   const lines: string[] = [];
   let sink = lines;
@@ -162,8 +164,8 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
 
   emit('"use strict";');
   // The solution lives in locals; the two points before it stay in the state array (only the predictor reads them).
-  emit(`let ${all((k) => `x${k} = s[${k}],`)} t = 0;`);
-  emit(`let ${all((k) => `t${k} = 0, n${k} = 0,`)} n = 0;`);
+  emit(declare((k) => `x${k} = s[${k}]`));
+  emit(declare((k) => `t${k} = 0, n${k} = 0`));
   for (const { id, at } of capacitors) emit(`let ${id}s1 = s[${at}], ${id}d1 = s[${at + 2}];`);
   for (const { id, at } of diodes) emit(`let ${id}v = s[${at}];`);
   for (const { id, at } of bjts) emit(`let ${id}be = s[${at}], ${id}bc = s[${at + 1}], ${id}ph = s[${at + 2}];`);
@@ -185,7 +187,7 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
   emit(`for (let it = 1; !converged && it <= ${int(tol.maxIterations)}; it++) {`);
   emit('iterations = it; iterationsTotal++;');
   emit('let limited = false;');
-  emit(`let ${all((k) => `w${k} = r${k},`)} w = 0;`);
+  emit(declare((k) => `w${k} = r${k}`));
   const stampedSlots = [...stamped].sort((a, b) => a - b);
   if (stampedSlots.length > 0) emit(`let ${stampedSlots.map((sl) => `v${sl} = ${literal(constantOf(sl))}`).join(', ')};`);
   for (const line of newtonStamps) emit(line);
@@ -196,7 +198,7 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
   emit('}');
 
   // Convergence as Newton.solve judges it.
-  emit(`{ const sum = ${all((k) => `n${k}`).split(' ').join(' + ')}; if (sum - sum !== 0) break steps; }`);
+  emit(`{ const sum = ${Array.from({ length: n }, (_, k) => `n${k}`).join(' + ')}; if (sum - sum !== 0) break steps; }`);
   if (early) {
     // Quadratic acceptance first (it decides most steps and is the cheaper test).
     emit('let worst = 0;');
