@@ -53,6 +53,10 @@ export class Simulator {
   subdividedSteps = 0;
   /** Steps taken by the generated kernel (for the benchmark and the tests). */
   generatedSteps = 0;
+  /** Of those, steps solved on the previous step's linearisation and factors (`reuseAcceptance`). */
+  reusedSteps = 0;
+  /** `steps` when the kernel last handed back: its held linearisation is stale once the general loop has stepped. */
+  private stepsAtKernelExit = -1;
   private readonly allowKernel: boolean;
   /** The generated kernel last used by `runBlock` (null: none yet, or the circuit has none). */
   kernel: StepKernel | null = null;
@@ -239,11 +243,18 @@ export class Simulator {
     s[layout.history] = this.olderStepSeconds === kernel.stepSeconds ? this.history : Math.min(this.history, 1);
     s[layout.predict] = this.predict ? 1 : 0;
     s[layout.iterations] = 0;
+    s[layout.reused] = 0;
+    if (this.steps !== this.stepsAtKernelExit) s[layout.reuse] = 0;
     kernel.loadParts();
     const done = kernel.run(s, kernel.constants, inputs, from, to, solutions);
     kernel.storeParts();
     this.newton.totalIterations += s[layout.iterations];
-    if (done === from) return done;
+    this.reusedSteps += s[layout.reused];
+    if (done === from) {
+      // The step it gave up on may have overwritten part of the held factors.
+      s[layout.reuse] = 0;
+      return done;
+    }
     copyInto(this.x, 0, s, layout.solution, n);
     copyInto(this.previous, 0, s, layout.previous, n);
     copyInto(this.older, 0, s, layout.older, n);
@@ -253,6 +264,7 @@ export class Simulator {
     this.timeSeconds = (firstStep + done - 1) * kernel.stepSeconds;
     this.steps += done - from;
     this.generatedSteps += done - from;
+    this.stepsAtKernelExit = this.steps;
     return done;
   }
 

@@ -6,7 +6,9 @@ import { VoltageSource } from '../../src/devices/sources.ts';
 import { Bjt } from '../../src/devices/bjt.ts';
 import type { DriveSignal } from '../../src/devices/wave.ts';
 import { withLightInputAndSpeaker, withMicrophoneResistance } from '../../src/link/chain/rewire.ts';
-import { AUDIO_TOLERANCES, DEFAULT_TOLERANCES, type NewtonTolerances } from '../../src/solver/newton.ts';
+import { AUDIO_TOLERANCES, DEFAULT_TOLERANCES, TIGHT_TOLERANCES, type NewtonTolerances } from '../../src/solver/newton.ts';
+import { exponentialRemainderCode } from '../../src/solver/kernel/junction-code.ts';
+import { ConstantPool } from '../../src/solver/kernel/literals.ts';
 import { Simulator, type SimulatorOptions } from '../../src/solver/simulator.ts';
 
 /*
@@ -71,9 +73,11 @@ const CASES: Case[] = [
 ];
 
 const STEP_SECONDS = 1 / 192_000;
+/** The audio tolerances with every step freshly linearised: what the general loop does. */
+const FRESH: NewtonTolerances = { ...AUDIO_TOLERANCES, reuseAcceptance: 0 };
 
 function run(c: Case, steps: number, options: SimulatorOptions): { solutions: Float64Array; sim: Simulator } {
-  const sim = new Simulator(c.circuit, { tolerances: AUDIO_TOLERANCES, ...options });
+  const sim = new Simulator(c.circuit, { tolerances: FRESH, ...options });
   const drive = c.input(sim);
   sim.operatingPoint();
   const inputs = Float64Array.from({ length: steps }, (_, i) => c.signal((i + 1) * STEP_SECONDS));
@@ -149,5 +153,67 @@ describe('generated step kernel', () => {
     expect(strict.sim.newton.totalIterations).toBeGreaterThan(audio.sim.newton.totalIterations);
     // Audio tolerances stop at 1e-4 relative junction-current error (newton.ts); every unknown stays within 1e-4 V or A of tight.
     expect(worstDifference(audio.solutions, strict.solutions, 1)).toBeLessThan(1e-4);
+  });
+});
+
+describe('generated step kernel on a held linearisation (AUDIO_TOLERANCES.reuseAcceptance)', () => {
+  const steps = 4000;
+  for (const c of CASES) {
+    it(`${c.name}: no further from the tight general loop than fresh linearisation is, give or take 10 %`, () => {
+      const tight = run(c, steps, { tolerances: TIGHT_TOLERANCES, generatedSteps: false });
+      const fresh = run(c, steps, {});
+      const held = run(c, steps, { tolerances: AUDIO_TOLERANCES });
+      expect(held.sim.reusedSteps).toBeGreaterThan(0);
+      expect(fresh.sim.reusedSteps).toBe(0);
+      const freshError = worstDifference(fresh.solutions, tight.solutions, 1);
+      expect(worstDifference(held.solutions, tight.solutions, 1)).toBeLessThanOrEqual(1.1 * freshError + 1e-7);
+      expect(held.solutions.every(Number.isFinite)).toBe(true);
+    });
+  }
+
+  it('takes quiet steps without evaluating a junction, and its chord correction is what keeps them close to fresh linearisation', () => {
+    const c = CASES[0];
+    const fresh = run(c, steps, {});
+    const held = run(c, steps, { tolerances: AUDIO_TOLERANCES });
+    const uncorrected = run(c, steps, { tolerances: { ...AUDIO_TOLERANCES, reuseCorrection: false } });
+    expect(held.sim.reusedSteps).toBeGreaterThan(0.15 * steps);
+    expect(held.sim.newton.totalIterations).toBeLessThan(0.85 * steps);
+    // Without the chord step the tangent's error (up to ½x² = 3e-5 of a junction current) shows: some 40× larger here.
+    const heldDifference = worstDifference(held.solutions, fresh.solutions, 1);
+    expect(worstDifference(uncorrected.solutions, fresh.solutions, 1)).toBeGreaterThan(10 * heldDifference);
+  });
+
+  it('sums the exponential beyond its tangent, e^x − 1 − x, within its Taylor remainder x⁶/720 for |x| ≤ 0.05 (against Math.expm1; A&S 4.2.1)', () => {
+    const pool = new ConstantPool();
+    const remainder = new Function('k', 'x', `return ${exponentialRemainderCode(pool, 'x')};`) as (k: Float64Array, x: number) => number;
+    const k = Float64Array.from(pool.values);
+    for (let x = -0.05; x <= 0.05; x += 0.0007) {
+      const exact = Math.expm1(x) - x;
+      expect(Math.abs(remainder(k, x) - exact)).toBeLessThanOrEqual(1.1 * (x ** 6 / 720) + 1e-18);
+    }
+  });
+
+  it('drops the held linearisation once the general loop has stepped in between (its factors belong to older junction voltages)', () => {
+    const c = CASES[0];
+    const sim = new Simulator(c.circuit, { tolerances: AUDIO_TOLERANCES });
+    const drive = c.input(sim);
+    sim.operatingPoint();
+    // Silence at the operating point: every kernel step after the first can hold its linearisation.
+    const inputs = new Float64Array(4000);
+    const solutions = new Float64Array(4000 * sim.system.size);
+    sim.runBlock(STEP_SECONDS, drive, inputs, 0, 3000, 1, solutions);
+    const reused = sim.reusedSteps;
+    expect(reused).toBeGreaterThan(2900);
+    sim.runBlock(STEP_SECONDS, drive, inputs, 3000, 3001, 1, solutions);
+    expect(sim.reusedSteps).toBe(reused + 1);
+    for (let i = 3001; i < 3003; i++) {
+      drive.upstreamValue = inputs[i];
+      sim.step(STEP_SECONDS, (i + 1) * STEP_SECONDS);
+    }
+    // The first kernel step after the general loop's is linearised afresh; the next may hold again.
+    sim.runBlock(STEP_SECONDS, drive, inputs, 3003, 3004, 1, solutions);
+    expect(sim.reusedSteps).toBe(reused + 1);
+    sim.runBlock(STEP_SECONDS, drive, inputs, 3004, 3005, 1, solutions);
+    expect(sim.reusedSteps).toBe(reused + 2);
   });
 });

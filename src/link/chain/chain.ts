@@ -197,6 +197,8 @@ export function assembleResult(
       receiverNewtonIterations: rx.newtonIterations,
       subdividedSteps: tx.subdividedSteps + rx.subdividedSteps,
       generatedSteps: tx.generatedSteps + rx.generatedSteps,
+      transmitterReusedSteps: tx.reusedSteps,
+      receiverReusedSteps: rx.reusedSteps,
       wallSeconds: (Date.now() - startedMs) / 1000,
       transmitterSeconds: tx.seconds,
       receiverSeconds: rx.seconds,

@@ -48,6 +48,9 @@ export interface RenderReport {
     subdividedSteps: number;
     /** Steps taken by the circuits' generated kernels (the rest took the general loop). */
     generatedSteps: number;
+    /** Of those, steps solved on the previous step's linearisation and factors, circuit by circuit. */
+    transmitterReusedSteps: number;
+    receiverReusedSteps: number;
     wallSeconds: number;
     /** Time spent stepping each circuit (its statistics and taps included), seconds. */
     transmitterSeconds: number;

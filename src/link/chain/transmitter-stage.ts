@@ -36,6 +36,7 @@ export interface StageFigures {
   newtonIterations: number;
   subdividedSteps: number;
   generatedSteps: number;
+  reusedSteps: number;
   seconds: number;
   taps: TapRecord[];
 }
@@ -48,6 +49,7 @@ export function stageFigures(simulator: Simulator, watches: readonly TransistorW
     newtonIterations: simulator.newton.totalIterations,
     subdividedSteps: simulator.subdividedSteps,
     generatedSteps: simulator.generatedSteps,
+    reusedSteps: simulator.reusedSteps,
     seconds: milliseconds / 1000,
     taps: taps.map((t) => t.finish()),
   };

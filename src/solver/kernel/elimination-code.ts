@@ -101,33 +101,79 @@ export function eliminationCode(
       }
     }
   }
-  const solve = (): string[] => {
+  /**
+   * Forward and back substitution with entry `entry(slot)` and `divide(pivotSlot)` (the division by a
+   * pivot). Rows in `zeroRows` start at zero: operations on values known to be zero are left out.
+   */
+  const substitution = (entry: (slot: number) => string, divide: (slot: number) => string, zeroRows: ReadonlySet<number> = new Set()): string[] => {
     const lines: string[] = ['let bk = 0;'];
-    const at = ref;
+    const zeroRow = new Set(zeroRows);
     // Forward substitution (unit lower triangle), then back substitution.
     for (let k = 0; k < program.size; k++) {
       const l0 = program.lowerStart[k];
       const l1 = program.lowerStart[k + 1];
-      if (l1 === l0) continue;
+      if (l1 === l0 || zeroRow.has(program.pivotRow[k])) continue;
       lines.push(`bk = w${int(program.pivotRow[k])};`);
-      for (let q = l0; q < l1; q++) lines.push(`w${int(program.lowerRow[q])} -= ${at(program.lowerSlot[q])} * bk;`);
+      for (let q = l0; q < l1; q++) {
+        const row = program.lowerRow[q];
+        lines.push(zeroRow.delete(row) ? `let w${int(row)} = -${entry(program.lowerSlot[q])} * bk;` : `w${int(row)} -= ${entry(program.lowerSlot[q])} * bk;`);
+      }
     }
+    const zeroCol = new Set<number>();
     for (let k = program.size - 1; k >= 0; k--) {
       const terms: string[] = [];
       for (let up = program.upperStart[k]; up < program.upperStart[k + 1]; up++) {
-        terms.push(` - ${at(program.upperSlot[up])} * n${int(program.upperCol[up])}`);
+        const col = program.upperCol[up];
+        if (!zeroCol.has(col)) terms.push(` - ${entry(program.upperSlot[up])} * n${int(col)}`);
       }
-      lines.push(`n${int(program.pivotCol[k])} = (w${int(program.pivotRow[k])}${terms.join('')}) / ${at(program.pivotSlot[k])};`);
+      const row = program.pivotRow[k];
+      const col = program.pivotCol[k];
+      if (zeroRow.has(row) && terms.length === 0) {
+        zeroCol.add(col);
+        lines.push(`n${int(col)} = 0;`);
+      } else {
+        lines.push(`n${int(col)} = (${zeroRow.has(row) ? '0' : `w${int(row)}`}${terms.join('')})${divide(program.pivotSlot[k])};`);
+      }
     }
     return lines;
   };
-  return { factor: out, solve: solve() };
+  // The variable entries the substitution reads: the factors a later step may solve with again.
+  const read = new Set<number>();
+  const reading = (slot: number): string => {
+    if (isVariable.has(slot)) read.add(slot);
+    return ref(slot);
+  };
+  const solve = substitution(reading, (slot) => ` / ${reading(slot)}`);
+  const pivots = new Set(program.pivotSlot);
+  const held: HeldFactor[] = [...read].sort((a, b) => a - b).map((slot) => ({ slot, inverse: pivots.has(slot) }));
+  const heldIndex = new Map(held.map((f, i) => [f.slot, i]));
+  const solveHeld = (place: (index: number) => string, zeroRows?: ReadonlySet<number>): string[] =>
+    substitution(
+      (slot) => (heldIndex.has(slot) ? place(heldIndex.get(slot) as number) : pool.ref(value(slot))),
+      (slot) => ` * ${heldIndex.has(slot) ? place(heldIndex.get(slot) as number) : pool.ref(1 / value(slot))}`,
+      zeroRows,
+    );
+  return { factor: out, solve, held, solveHeld };
+}
+
+/** A factor entry kept for later solves: its slot, and whether it is a pivot (kept as its inverse). */
+export interface HeldFactor {
+  slot: number;
+  inverse: boolean;
 }
 
 /** The elimination as code: the factorisation, then forward and back substitution. */
 export interface EliminationCode {
   factor: string[];
   solve: string[];
+  /** The variable factor entries the substitution reads, in the order a held copy keeps them. */
+  held: HeldFactor[];
+  /**
+   * The substitution again, reading held entry i (a pivot as its inverse) from `place(i)`:
+   * solves a later step on factors kept from an earlier one. Rows in `zeroRows` are not
+   * declared by the caller and start at zero.
+   */
+  solveHeld(place: (index: number) => string, zeroRows?: ReadonlySet<number>): string[];
 }
 
 /** The elimination order does not suit the fixed entries (a fixed pivot too small): no kernel. */

@@ -1,7 +1,17 @@
 import type { DriveSignal } from '../../devices/wave.ts';
 import { HARD_STEP_ITERATIONS, type NewtonTolerances } from '../newton.ts';
 import type { EliminationProgram } from '../straight-line-lu.ts';
-import { bjtLinearisationError, bjtNewton, diodeLinearisationError, diodeNewton, type DeviceCodeContext, type JunctionDevice } from './device-code.ts';
+import {
+  HELD_VALUES,
+  bjtCorrection,
+  bjtLinearisationError,
+  bjtNewton,
+  diodeCorrection,
+  diodeLinearisationError,
+  diodeNewton,
+  type DeviceCodeContext,
+  type JunctionDevice,
+} from './device-code.ts';
 import { eliminationCode } from './elimination-code.ts';
 import { ConstantPool, int } from './literals.ts';
 import type { BjtPart, CapacitorPart, DiodePart, KernelPart } from './plan.ts';
@@ -36,6 +46,15 @@ export interface KernelLayout {
   history: number;
   predict: number;
   iterations: number;
+  /**
+   * 1 when the held linearisation below belongs to the junction voltages in the part states
+   * (the caller sets 0 after the general loop has stepped); steps taken on it so far.
+   */
+  reuse: number;
+  reused: number;
+  /** The last iteration's junction right-hand side, by stamped row, then its factor entries. */
+  heldRhs: number;
+  heldFactors: number;
   length: number;
 }
 
@@ -88,7 +107,6 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
     offset += p.kind === 'diode' ? 1 : 3;
     return at;
   });
-  const layout: KernelLayout = { solution: 0, previous: n, older: 2 * n, partState, history: offset, predict: offset + 1, iterations: offset + 2, length: offset + 3 };
 
   // Right-hand side terms fixed over a step, by row; the parts sorted by kind.
   const stepTerms: string[][] = Array.from({ length: n }, () => []);
@@ -120,11 +138,11 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
         break;
       }
       case 'diode':
-        diodes.push({ part, id: `d${diodes.length}`, at });
+        diodes.push({ part, id: `d${diodes.length}`, at, heldAt: -1 });
         break;
       case 'bjt': {
         const id = `t${bjts.length}`;
-        bjts.push({ part, id, at });
+        bjts.push({ part, id, at, heldAt: -1 });
         if (part.light) {
           // The photocurrent flows collector → base inside the part, fixed over the step.
           stepCode.push(`{ const w = ${driveValue(part.light)}; ${id}ph = ${literal(part.responsivity)} * (w > 0 ? w : 0); }`);
@@ -135,12 +153,25 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
       }
     }
   });
-  const early = tol.quadraticAcceptance > 0 && (diodes.length > 0 || bjts.length > 0);
+  const junctions = diodes.length > 0 || bjts.length > 0;
+  const early = tol.quadraticAcceptance > 0 && junctions;
+  const reuse = tol.reuseAcceptance > 0 && junctions;
+  if (reuse) {
+    for (const d of diodes) {
+      d.heldAt = offset;
+      offset += HELD_VALUES.diode;
+    }
+    for (const t of bjts) {
+      t.heldAt = offset;
+      offset += HELD_VALUES.bjt;
+    }
+  }
 
   // The Newton iteration's stamps go aside first, to learn which matrix entries the junctions
   // stamp: those are locals starting from the constant part; every other entry is fixed.
   const constantOf = (sl: number): number => (sl < spec.constantValues.length ? spec.constantValues[sl] : 0);
   const stamped = new Set<number>();
+  const stampedRows = new Set<number>();
   const context: DeviceCodeContext = {
     pool,
     emit,
@@ -152,7 +183,9 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
       emit(`v${sl} ${op} ${expr};`);
     },
     stampRhs: (row, op, expr) => {
-      if (row >= 0 && row < n) emit(`w${row} ${op} ${expr};`);
+      if (row < 0 || row >= n) return;
+      stampedRows.add(row);
+      emit(`w${row} ${op} ${expr};`);
     },
   };
   const newtonStamps: string[] = [];
@@ -161,6 +194,22 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
   for (const t of bjts) bjtNewton(context, t);
   sink = lines;
   const elimination = eliminationCode(spec.program, stamped, constantOf, pool, spec.pivotThreshold, 'break steps;');
+  const rhsRows = [...stampedRows].sort((a, b) => a - b);
+  const layout: KernelLayout = {
+    solution: 0,
+    previous: n,
+    older: 2 * n,
+    partState,
+    history: offset,
+    predict: offset + 1,
+    iterations: offset + 2,
+    reuse: offset + 3,
+    reused: offset + 4,
+    heldRhs: offset + 5,
+    heldFactors: offset + 5 + rhsRows.length,
+    length: offset + 5 + rhsRows.length + elimination.held.length,
+  };
+  const heldRhs = new Map(rhsRows.map((row, i) => [row, layout.heldRhs + i]));
 
   emit('"use strict";');
   // The solution lives in locals; the two points before it stay in the state array (only the predictor reads them).
@@ -170,11 +219,44 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
   for (const { id, at } of diodes) emit(`let ${id}v = s[${at}];`);
   for (const { id, at } of bjts) emit(`let ${id}be = s[${at}], ${id}bc = s[${at + 1}], ${id}ph = s[${at + 2}];`);
   emit(`let history = s[${layout.history}], predict = s[${layout.predict}], iterationsTotal = s[${layout.iterations}];`);
+  emit(`let reuse = s[${layout.reuse}], reusedTotal = s[${layout.reused}];`);
   emit('let i = from;');
   emit('steps: for (; i < to; i++) {');
   emit('const u = input[i];');
   for (const line of stepCode) emit(line);
   for (let r = 0; r < n; r++) emit(`const r${r} = 0 ${stepTerms[r].join(' ')};`);
+  emit('let converged = false, iterations = 0;');
+  if (reuse) {
+    // The last step's linearisation and factors first: no junction evaluated, nothing factored.
+    // Kept when every junction stays as close to the voltage it was linearised at as the quadratic
+    // acceptance below asks of a fresh linearisation.
+    emit('if (reuse === 1) {');
+    emit(declare((k) => (heldRhs.has(k) ? `w${k} = r${k} + s[${int(heldRhs.get(k) as number)}]` : `w${k} = r${k}`)));
+    emit('{');
+    for (const line of elimination.solveHeld((index) => `s[${int(layout.heldFactors + index)}]`)) emit(line);
+    emit('}');
+    emit('let worst = 0;');
+    for (const d of diodes) diodeLinearisationError(context, d);
+    for (const t of bjts) bjtLinearisationError(context, t);
+    emit(`const sum = ${Array.from({ length: n }, (_, k) => `n${k}`).join(' + ')};`);
+    emit(`if (worst <= ${literal(tol.reuseAcceptance)} && sum - sum === 0) {`);
+    emit(all((k) => `t${k} = n${k};`));
+    if (tol.reuseCorrection) {
+      // One chord step on the held factors for what the tangents leave out.
+      emit('{');
+      emit(`let ${rhsRows.map((row) => `w${row} = 0`).join(', ')};`);
+      for (const d of diodes) diodeCorrection(context, d);
+      for (const t of bjts) bjtCorrection(context, t);
+      const zeroRows = new Set(Array.from({ length: n }, (_, k) => k).filter((k) => !heldRhs.has(k)));
+      for (const line of elimination.solveHeld((index) => `s[${int(layout.heldFactors + index)}]`, zeroRows)) emit(line);
+      emit(all((k) => `t${k} += n${k};`));
+      emit('}');
+    }
+    emit('converged = true; reusedTotal++;');
+    emit('}');
+    emit('}');
+  }
+  emit('if (!converged) {');
   // Predictor: quadratic or linear extrapolation through the accepted points (equal steps), or none.
   // One line with chosen coefficients rather than three branches: a branch first taken late would
   // send the engine back to its unoptimised code.
@@ -182,7 +264,6 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
   emit('const c1 = predict === 1 ? (history >= 2 ? -3 : history >= 1 ? -1 : 0) : 0;');
   emit('const c2 = predict === 1 && history >= 2 ? 1 : 0;');
   emit(all((k) => `t${k} = c0 * x${k} + c1 * s[${n + k}] + c2 * s[${2 * n + k}];`));
-  emit('let converged = false, iterations = 0;');
 
   emit(`for (let it = 1; !converged && it <= ${int(tol.maxIterations)}; it++) {`);
   emit('iterations = it; iterationsTotal++;');
@@ -191,9 +272,13 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
   const stampedSlots = [...stamped].sort((a, b) => a - b);
   if (stampedSlots.length > 0) emit(`let ${stampedSlots.map((sl) => `v${sl} = ${literal(constantOf(sl))}`).join(', ')};`);
   for (const line of newtonStamps) emit(line);
+  if (reuse) for (const [row, at] of heldRhs) emit(`s[${int(at)}] = w${row} - r${row};`);
   // Elimination in the sparse matrix's order, fixed parts folded; a pivot that has gone small ends the block.
   emit('{');
   for (const line of elimination.factor) emit(line);
+  if (reuse) {
+    elimination.held.forEach((f, index) => emit(`s[${int(layout.heldFactors + index)}] = ${f.inverse ? `1 / v${int(f.slot)}` : `v${int(f.slot)}`};`));
+  }
   for (const line of elimination.solve) emit(line);
   emit('}');
 
@@ -217,6 +302,8 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
   emit('if (within) converged = true;');
   emit('}'); // Newton
   emit('if (!converged) break;');
+  if (reuse) emit('reuse = 1;');
+  emit('}'); // a fresh linearisation
   // Accept: capacitor histories, predictor points, output.
   for (const { part, id, at } of capacitors) {
     emit(`{ const sq = ${literal(part.farads)} * (${voltage('t', part.a)} - ${voltage('t', part.b)}); const dq = ${literal(2 / h)} * sq + ${id}h; s[${at + 1}] = ${id}s1; ${id}s1 = sq; ${id}d1 = dq; }`);
@@ -232,6 +319,7 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
   for (const { id, at } of diodes) emit(`s[${at}] = ${id}v;`);
   for (const { id, at } of bjts) emit(`s[${at}] = ${id}be; s[${at + 1}] = ${id}bc; s[${at + 2}] = ${id}ph;`);
   emit(`s[${layout.history}] = history; s[${layout.predict}] = predict; s[${layout.iterations}] = iterationsTotal;`);
+  emit(`s[${layout.reuse}] = reuse; s[${layout.reused}] = reusedTotal;`);
   emit('return i;');
   const code = lines.join('\n');
   return { run: compiled(code), layout, code, constants: Float64Array.from(pool.values) };
