@@ -203,8 +203,12 @@ export class Simulator {
     while (i < to) {
       const kernel = this.readyKernel(stepSeconds, drive);
       if (kernel) {
-        i = this.runKernel(kernel, inputs, i, to, firstStep, solutions);
+        // A new kernel's first call takes one step, so that its way in and out has run before the
+        // engine optimises it in mid-loop (else its first return sends it back to unoptimised code).
+        const end = kernel.calls === 0 ? Math.min(to, i + 1) : to;
+        i = this.runKernel(kernel, inputs, i, end, firstStep, solutions);
         if (i >= to) break;
+        if (i === end) continue;
       }
       drive.upstreamValue = inputs[i];
       this.step(stepSeconds, (firstStep + i) * stepSeconds);
@@ -246,6 +250,7 @@ export class Simulator {
     s[layout.reused] = 0;
     if (this.steps !== this.stepsAtKernelExit) s[layout.reuse] = 0;
     kernel.loadParts();
+    kernel.calls++;
     const done = kernel.run(s, kernel.constants, inputs, from, to, solutions);
     kernel.storeParts();
     this.newton.totalIterations += s[layout.iterations];

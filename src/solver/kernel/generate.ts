@@ -218,8 +218,9 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
   for (const { id, at } of capacitors) emit(`let ${id}s1 = s[${at}], ${id}d1 = s[${at + 2}];`);
   for (const { id, at } of diodes) emit(`let ${id}v = s[${at}];`);
   for (const { id, at } of bjts) emit(`let ${id}be = s[${at}], ${id}bc = s[${at + 1}], ${id}ph = s[${at + 2}];`);
-  emit(`let history = s[${layout.history}], predict = s[${layout.predict}], iterationsTotal = s[${layout.iterations}];`);
-  emit(`let reuse = s[${layout.reuse}], reusedTotal = s[${layout.reused}];`);
+  // Small integers held as such (| 0): a counter that arrives as a double would send the engine back to unoptimised code.
+  emit(`let history = s[${layout.history}] | 0, predict = s[${layout.predict}] | 0, iterationsTotal = s[${layout.iterations}] | 0;`);
+  emit(`let reuse = s[${layout.reuse}] | 0, reusedTotal = s[${layout.reused}] | 0;`);
   emit('let i = from;');
   emit('steps: for (; i < to; i++) {');
   emit('const u = input[i];');

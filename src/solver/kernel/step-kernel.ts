@@ -14,6 +14,8 @@ import type { KernelPart } from './plan.ts';
  */
 export class StepKernel {
   readonly state: Float64Array;
+  /** Calls of `run` so far (the simulator makes the first one short). */
+  calls = 0;
   private readonly parts: KernelPart[];
 
   private constructor(
