@@ -4,7 +4,7 @@ import type { Integrator } from '../solver/integrator.ts';
 import type { KernelPart } from '../solver/kernel/plan.ts';
 import { Capacitor } from './capacitor.ts';
 import { JUNCTION_GMIN_SIEMENS, type Binder, type IterationContext, type PinCurrents, type ThreeTerminal } from './device.ts';
-import { JunctionPoint, conductingVolts, criticalVolts, evaluateJunction, junctionLinearisationError, limitJunctionStep } from './junction.ts';
+import { JunctionPoint, conductingVolts, criticalVolts, evaluateJunction, exponentialRemainder, junctionLinearisationError, limitJunctionStep } from './junction.ts';
 import { Resistor, voltageAt } from './resistor.ts';
 import { DriveSignal } from './wave.ts';
 
@@ -52,6 +52,11 @@ export class Bjt implements ThreeTerminal {
   private change = 0;
   private readonly forward = new JunctionPoint();
   private readonly reverse = new JunctionPoint();
+  /** The last load's Is·e^(v/nVT) and conductance of each junction (kept apart: probes reuse the points above). */
+  private heldForwardExponential = 0;
+  private heldForwardSiemens = 0;
+  private heldReverseExponential = 0;
+  private heldReverseSiemens = 0;
 
   constructor(
     readonly ref: string,
@@ -135,6 +140,10 @@ export class Bjt implements ThreeTerminal {
     const r = this.reverse;
     evaluateJunction(vbe, this.saturationAmperes, this.emissionVolts, f);
     evaluateJunction(vbc, this.saturationAmperes, this.emissionVolts, r);
+    this.heldForwardExponential = f.exponential;
+    this.heldForwardSiemens = f.siemens;
+    this.heldReverseExponential = r.exponential;
+    this.heldReverseSiemens = r.siemens;
     const early = 1 - vbc * this.inverseEarlyVolts;
     const transport = f.amperes - r.amperes;
     const gmin = JUNCTION_GMIN_SIEMENS;
@@ -181,6 +190,26 @@ export class Bjt implements ThreeTerminal {
       junctionLinearisationError(p * (vb - voltageAt(x, this.e)), this.vbe, n),
       junctionLinearisationError(p * (vb - voltageAt(x, this.c)), this.vbc, n),
     );
+  }
+
+  /** The junction currents' remainders carried through the Early factor and the betas (the terms of ic and ib the tangent plane leaves out). */
+  stampHeldRemainder(rhs: Float64Array, x: Float64Array): void {
+    const p = this.polarity;
+    const n = this.emissionVolts;
+    const vb = voltageAt(x, this.b);
+    const vbc = p * (vb - voltageAt(x, this.c));
+    const dbe = p * (vb - voltageAt(x, this.e)) - this.vbe;
+    const dbc = vbc - this.vbc;
+    const dF = this.heldForwardExponential * exponentialRemainder(dbe / n);
+    const dR = this.heldReverseExponential * exponentialRemainder(dbc / n);
+    const dIc =
+      (dF - dR) * (1 - vbc * this.inverseEarlyVolts) - (this.heldForwardSiemens * dbe - this.heldReverseSiemens * dbc) * dbc * this.inverseEarlyVolts - dR * this.inverseReverseBeta;
+    const dIb = dF * this.inverseForwardBeta + dR * this.inverseReverseBeta;
+    const equivalentC = p * dIc;
+    const equivalentB = p * dIb;
+    rhs[this.rc] -= equivalentC;
+    rhs[this.rb] -= equivalentB;
+    rhs[this.re] += equivalentC + equivalentB;
   }
 
   breakpoints(stopSeconds: number): number[] {

@@ -58,6 +58,13 @@ export interface Device {
    * largest relative junction-current error ½(Δv/nVT)² (Taylor remainder of the exponential).
    */
   linearisationError?(x: Float64Array): number;
+  /**
+   * Nonlinear devices: adds to `rhs`, with the signs of `load`'s equivalent currents, what the
+   * tangents of the last `load` leave out of the junction currents at x, from the exponentials
+   * held at that load (`exponentialRemainder`, no exponential evaluated). One solve with the
+   * last factors then corrects a step solved on that linearisation (`reuseAcceptance`).
+   */
+  stampHeldRemainder?(rhs: Float64Array, x: Float64Array): void;
   /** Size of this device's last junction-voltage update in volts (to blame a part when Newton fails). */
   lastJunctionChange(): number;
   /** Times where the device's drive has a corner, within (0, stopSeconds]. */

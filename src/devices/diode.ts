@@ -4,7 +4,7 @@ import type { Integrator } from '../solver/integrator.ts';
 import type { KernelPart } from '../solver/kernel/plan.ts';
 import { Capacitor } from './capacitor.ts';
 import { JUNCTION_GMIN_SIEMENS, type Binder, type IterationContext, type TwoTerminal } from './device.ts';
-import { JunctionPoint, criticalVolts, evaluateJunction, junctionLinearisationError, limitJunctionStep } from './junction.ts';
+import { JunctionPoint, criticalVolts, evaluateJunction, exponentialRemainder, junctionLinearisationError, limitJunctionStep } from './junction.ts';
 import { Resistor, voltageAt } from './resistor.ts';
 
 /**
@@ -35,6 +35,8 @@ export class Diode implements TwoTerminal {
   private junctionVolts = 0;
   private change = 0;
   private readonly point = new JunctionPoint();
+  /** The last load's Is·e^(v/nVT) (kept apart: `junctionCurrent` reuses the point above). */
+  private heldExponential = 0;
 
   constructor(
     readonly ref: string,
@@ -84,6 +86,7 @@ export class Diode implements TwoTerminal {
     this.change = Math.abs(v - this.junctionVolts);
     this.junctionVolts = v;
     evaluateJunction(v, this.saturationAmperes, this.emissionVolts, this.point);
+    this.heldExponential = this.point.exponential;
     const g = this.point.siemens + JUNCTION_GMIN_SIEMENS;
     const i = this.point.amperes + JUNCTION_GMIN_SIEMENS * v;
     const equivalent = i - g * v;
@@ -101,6 +104,13 @@ export class Diode implements TwoTerminal {
 
   lastJunctionChange(): number {
     return this.change;
+  }
+
+  stampHeldRemainder(rhs: Float64Array, x: Float64Array): void {
+    const x0 = (voltageAt(x, this.junction) - voltageAt(x, this.cathode) - this.junctionVolts) / this.emissionVolts;
+    const remainder = this.heldExponential * exponentialRemainder(x0);
+    rhs[this.rj] -= remainder;
+    rhs[this.rk] += remainder;
   }
 
   linearisationError(x: Float64Array): number {

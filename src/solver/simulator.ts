@@ -53,8 +53,17 @@ export class Simulator {
   subdividedSteps = 0;
   /** Steps taken by the generated kernel (for the benchmark and the tests). */
   generatedSteps = 0;
-  /** Of those, steps solved on the previous step's linearisation and factors (`reuseAcceptance`). */
+  /** Steps solved on the previous step's linearisation and factors (`reuseAcceptance`), by either loop. */
   reusedSteps = 0;
+  /**
+   * The system's stamp counts after the last converged Newton time step: its factors, its devices'
+   * part of the right-hand side and the devices' linearisation points still belong together while
+   * they have not moved (null: nothing held, or the kernel has stepped since).
+   */
+  private held: { stamps: number; constantStamps: number } | null = null;
+  /** The last solved step was taken on the held linearisation. */
+  private pendingHeld = false;
+  private readonly scratch: Float64Array;
   /** `steps` when the kernel last handed back: its held linearisation is stale once the general loop has stepped. */
   private stepsAtKernelExit = -1;
   private readonly allowKernel: boolean;
@@ -72,6 +81,9 @@ export class Simulator {
     this.previous = new Float64Array(this.system.size + 1);
     this.older = new Float64Array(this.system.size + 1);
     this.trial = new Float64Array(this.system.size + 1);
+    this.scratch = new Float64Array(this.system.size + 1);
+    // The dense reference stays the straightforward path: every step linearised afresh.
+    this.system.keepLinearisation = this.system.canHoldLinearisation && (options.linearAlgebra ?? 'sparse') !== 'dense';
   }
 
   /** Finds the DC operating point and makes it the state at t = 0. */
@@ -143,6 +155,9 @@ export class Simulator {
     system.beginStep(targetSeconds, 1);
     const trial = this.trial;
     const n = system.size;
+    this.pendingStep = stepSeconds;
+    this.pendingTarget = targetSeconds;
+    if (this.solveOnHeld()) return true;
     if (this.predict && this.history >= 2) {
       // Quadratic extrapolation through the last three accepted points (Lagrange form).
       const h = stepSeconds;
@@ -163,9 +178,35 @@ export class Simulator {
       trial.set(x);
     }
     const outcome = this.newton.solve(trial, false, true);
-    this.pendingStep = stepSeconds;
-    this.pendingTarget = targetSeconds;
+    this.pendingHeld = false;
+    this.held = outcome.converged && system.keepLinearisation ? { stamps: system.stamps, constantStamps: system.constantStamps } : null;
     return outcome.converged;
+  }
+
+  /**
+   * The step on the last step's linearisation and factors (`reuseAcceptance`), chord-corrected,
+   * into `trial`: true when every junction stayed close enough to where it was linearised.
+   * The generated kernel does the same (`kernel/generate.ts`).
+   */
+  private solveOnHeld(): boolean {
+    const system = this.system;
+    const tolerances = this.newton.tolerances;
+    const held = this.held;
+    if (tolerances.reuseAcceptance <= 0 || held === null || held.stamps !== system.stamps || held.constantStamps !== system.constantStamps) return false;
+    const trial = this.trial;
+    system.solveHeld(trial);
+    if (!(system.linearisationError(trial) <= tolerances.reuseAcceptance)) return false;
+    if (tolerances.reuseCorrection) system.correctHeld(trial, this.scratch);
+    let sum = 0;
+    for (let i = 0; i < system.size; i++) sum += trial[i];
+    if (sum - sum !== 0) return false;
+    const outcome = this.newton.outcome;
+    outcome.converged = true;
+    outcome.iterations = 0;
+    outcome.worstUnknown = -1;
+    outcome.singular = false;
+    this.pendingHeld = true;
+    return true;
   }
 
   /** The solution of the last `solveStep`, not yet accepted. */
@@ -187,6 +228,7 @@ export class Simulator {
     this.restart = false;
     this.predict = this.newton.outcome.iterations <= HARD_STEP_ITERATIONS;
     if (!this.predict) this.history = 0;
+    if (this.pendingHeld) this.reusedSteps++;
     this.steps++;
   }
 
@@ -250,6 +292,8 @@ export class Simulator {
     s[layout.reused] = 0;
     if (this.steps !== this.stepsAtKernelExit) s[layout.reuse] = 0;
     kernel.loadParts();
+    // The kernel moves the devices' linearisation points on: what the general loop holds is stale.
+    this.held = null;
     kernel.calls++;
     const done = kernel.run(s, kernel.constants, inputs, from, to, solutions);
     kernel.storeParts();

@@ -43,6 +43,15 @@ export class CircuitSystem {
   /** Conductance from every node to ground, used while stepping gmin at DC. */
   nodeShuntSiemens = 0;
   readonly iteration: IterationContext = { initialiseJunctions: false, limited: false };
+  /** Every nonlinear device can correct a step taken on its held linearisation (`stampHeldRemainder`). */
+  readonly canHoldLinearisation: boolean;
+  /** Keep the devices' part of each iteration's right-hand side for `solveHeld` (set by the simulator). */
+  keepLinearisation = false;
+  /** Counts of `stamp` and `stampConstants` calls: a held linearisation is good while neither has moved. */
+  stamps = 0;
+  constantStamps = 0;
+  /** The devices' part of the last iteration's right-hand side (their equivalent currents). */
+  private readonly heldRhs: Float64Array;
 
 
   constructor(
@@ -99,6 +108,8 @@ export class CircuitSystem {
     this.constantValues = new Float64Array(this.matrix.stampedSlots);
     this.stepRhs = new Float64Array(size + 1);
     this.rhs = new Float64Array(size + 1);
+    this.heldRhs = new Float64Array(size + 1);
+    this.canHoldLinearisation = this.nonlinearDevices.every((d) => d.stampHeldRemainder !== undefined && d.linearisationError !== undefined);
 
   }
 
@@ -124,6 +135,7 @@ export class CircuitSystem {
 
   /** Re-stamps the parts of the matrix fixed for the current integrator coefficients. */
   stampConstants(): void {
+    this.constantStamps++;
     const m = this.constantValues;
     m.fill(0);
     for (const d of this.devices) d.stampConstant(m, this.integrator);
@@ -162,6 +174,36 @@ export class CircuitSystem {
     const context = this.iteration;
     context.limited = false;
     for (const d of this.nonlinearDevices) d.load(values, this.rhs, x, context);
+    this.stamps++;
+    if (this.keepLinearisation) {
+      const rhs = this.rhs;
+      const step = this.stepRhs;
+      const held = this.heldRhs;
+      for (let i = 0; i < this.size; i++) held[i] = rhs[i] - step[i];
+    }
+  }
+
+  /**
+   * Solves the step begun with `beginStep` on the last iteration's linearisation and factors
+   * (nothing stamped, nothing factored) into xNew. Only while `stamps` and `constantStamps`
+   * are where they were after that iteration, with `keepLinearisation` on.
+   */
+  solveHeld(xNew: Float64Array): void {
+    const rhs = this.rhs;
+    const step = this.stepRhs;
+    const held = this.heldRhs;
+    for (let i = 0; i < this.size; i++) rhs[i] = step[i] + held[i];
+    this.matrix.solve(rhs, xNew);
+    xNew[this.size] = 0;
+  }
+
+  /** One chord step at x on the held factors for what the junctions' tangents leave out; adds it to x. */
+  correctHeld(x: Float64Array, scratch: Float64Array): void {
+    const rhs = this.rhs;
+    rhs.fill(0);
+    for (const d of this.nonlinearDevices) d.stampHeldRemainder?.(rhs, x);
+    this.matrix.solve(rhs, scratch);
+    for (let i = 0; i < this.size; i++) x[i] += scratch[i];
   }
 
   /**

@@ -128,7 +128,7 @@ export function bjtLinearisationError(c: DeviceCodeContext, { part, id }: Juncti
  */
 export function diodeCorrection(c: DeviceCodeContext, { part, id, heldAt }: JunctionDevice<DiodePart>): void {
   c.emit(`{ const x = (${c.voltage('n', part.junction)} - ${c.voltage('n', part.cathode)} - ${id}v) / ${c.pool.ref(part.emissionVolts)};`);
-  c.emit(`const dI = s[${int(heldAt)}] * ${exponentialRemainderCode(c.pool, 'x')};`);
+  c.emit(`const dI = s[${int(heldAt)}] * (${exponentialRemainderCode(c.pool, 'x')});`);
   c.stampRhs(part.junction, '-=', 'dI');
   c.stampRhs(part.cathode, '+=', 'dI');
   c.emit('}');
@@ -145,7 +145,7 @@ export function bjtCorrection(c: DeviceCodeContext, { part, id, heldAt }: Juncti
   const { collector: col, base: b, emitter: e } = part;
   c.emit(`{ const vb = ${c.voltage('n', b)}; const vbc = ${p} * (vb - ${c.voltage('n', col)});`);
   c.emit(`const dbe = ${p} * (vb - ${c.voltage('n', e)}) - ${id}be; const dbc = vbc - ${id}bc; const xf = dbe / ${nvt}; const xr = dbc / ${nvt};`);
-  c.emit(`const dF = s[${int(heldAt)}] * ${exponentialRemainderCode(c.pool, 'xf')}; const dR = s[${int(heldAt + 2)}] * ${exponentialRemainderCode(c.pool, 'xr')};`);
+  c.emit(`const dF = s[${int(heldAt)}] * (${exponentialRemainderCode(c.pool, 'xf')}); const dR = s[${int(heldAt + 2)}] * (${exponentialRemainderCode(c.pool, 'xr')});`);
   c.emit(`const dIc = (dF - dR) * (1 - vbc * ${invEarly}) - (s[${int(heldAt + 1)}] * dbe - s[${int(heldAt + 3)}] * dbc) * dbc * ${invEarly} - dR * ${c.pool.ref(part.inverseReverseBeta)};`);
   c.emit(`const dIb = dF * ${c.pool.ref(part.inverseForwardBeta)} + dR * ${c.pool.ref(part.inverseReverseBeta)};`);
   c.emit(`const eqC = ${p} * dIc; const eqB = ${p} * dIb;`);

@@ -239,8 +239,7 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
     emit('let worst = 0;');
     for (const d of diodes) diodeLinearisationError(context, d);
     for (const t of bjts) bjtLinearisationError(context, t);
-    emit(`const sum = ${Array.from({ length: n }, (_, k) => `n${k}`).join(' + ')};`);
-    emit(`if (worst <= ${literal(tol.reuseAcceptance)} && sum - sum === 0) {`);
+    emit(`if (worst <= ${literal(tol.reuseAcceptance)}) {`);
     emit(all((k) => `t${k} = n${k};`));
     if (tol.reuseCorrection) {
       // One chord step on the held factors for what the tangents leave out.
@@ -253,7 +252,9 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
       emit(all((k) => `t${k} += n${k};`));
       emit('}');
     }
-    emit('converged = true; reusedTotal++;');
+    // A non-finite answer is left to a fresh linearisation (which ends the block if it persists).
+    emit(`const sum = ${Array.from({ length: n }, (_, k) => `t${k}`).join(' + ')};`);
+    emit('if (sum - sum === 0) { converged = true; reusedTotal++; }');
     emit('}');
     emit('}');
   }

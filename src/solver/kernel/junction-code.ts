@@ -23,11 +23,7 @@ export function junctionCode(pool: ConstantPool, volts: string, amperes: string,
   ].join('\n');
 }
 
-/**
- * Code for e^x − 1 − x at small x, the part of a junction's exponential its linearisation leaves
- * out: the Taylor series to x⁵ (A&S 4.2.1). Its remainder, about x⁶/720, is 1e-14 at the
- * |x| ≤ 0.014 a held linearisation allows (½x² ≤ 1e-4) and 2e-11 at |x| = 0.05.
- */
+/** Code for `exponentialRemainder(x)` (devices/junction.ts): the same sum, in the same order. */
 export function exponentialRemainderCode(pool: ConstantPool, x: string): string {
   return `${x} * ${x} * (${pool.ref(1 / 2)} + ${x} * (${pool.ref(1 / 6)} + ${x} * (${pool.ref(1 / 24)} + ${x} * ${pool.ref(1 / 120)})))`;
 }
