@@ -260,11 +260,13 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
   }
   emit('if (!converged) {');
   // Predictor: quadratic or linear extrapolation through the accepted points (equal steps), or none.
-  // One line with chosen coefficients rather than three branches: a branch first taken late would
-  // send the engine back to its unoptimised code.
-  emit('const c0 = predict === 1 ? (history >= 2 ? 3 : history >= 1 ? 2 : 1) : 1;');
-  emit('const c1 = predict === 1 ? (history >= 2 ? -3 : history >= 1 ? -1 : 0) : 0;');
-  emit('const c2 = predict === 1 && history >= 2 ? 1 : 0;');
+  // Chosen coefficients rather than three branches, every comparison made every time: code first
+  // reached late (a branch, or the right side of a short-circuit) has no type feedback, and sends
+  // the engine back to its unoptimised code when it is.
+  emit('const on = predict === 1, two = on & (history >= 2), one = on & (history >= 1);');
+  emit('const c0 = two ? 3 : one ? 2 : 1;');
+  emit('const c1 = two ? -3 : one ? -1 : 0;');
+  emit('const c2 = two ? 1 : 0;');
   emit(all((k) => `t${k} = c0 * x${k} + c1 * s[${n + k}] + c2 * s[${2 * n + k}];`));
 
   emit(`for (let it = 1; !converged && it <= ${int(tol.maxIterations)}; it++) {`);
@@ -297,7 +299,7 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
   emit('let within = true;');
   for (let k = 0; k < n; k++) {
     const absolute = literal(k < spec.nodeCount ? tol.volts : tol.amperes);
-    emit(`if (within && !(Math.abs(n${k} - t${k}) <= ${literal(tol.relative)} * Math.max(Math.abs(n${k}), Math.abs(t${k})) + ${absolute})) within = false;`);
+    emit(`if (!(Math.abs(n${k} - t${k}) <= ${literal(tol.relative)} * Math.max(Math.abs(n${k}), Math.abs(t${k})) + ${absolute})) within = false;`);
   }
   emit(all((k) => `t${k} = n${k};`));
   emit('if (limited) continue;');

@@ -37,7 +37,8 @@ export function limitCode(pool: ConstantPool, volts: string, previous: string, j
   const nvt = pool.ref(j.emissionVolts);
   const critical = pool.ref(j.criticalVolts);
   return [
-    `if (${volts} > ${critical} && Math.abs(${volts} - ${previous}) > ${pool.ref(2 * j.emissionVolts)}) {`,
+    // Both comparisons every time (& rather than &&): see the predictor in generate.ts.
+    `if ((${volts} > ${critical}) & (Math.abs(${volts} - ${previous}) > ${pool.ref(2 * j.emissionVolts)})) {`,
     'limited = true;',
     `if (${previous} > 0) { const arg = 1 + (${volts} - ${previous}) / ${nvt}; ${volts} = arg > 0 ? ${previous} + ${nvt} * Math.log(arg) : ${critical}; }`,
     `else ${volts} = ${nvt} * Math.log(${volts} / ${nvt});`,
