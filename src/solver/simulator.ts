@@ -333,6 +333,6 @@ export class Simulator {
 }
 
 /** Copies `count` values from `from[at…]` to `to[offset…]` without making a view (this runs once per step on the general loop). */
-function copyInto(to: Float64Array, offset: number, from: Float64Array, at: number, count: number): void {
+function copyInto(to: Float64Array | number[], offset: number, from: Float64Array | readonly number[], at: number, count: number): void {
   for (let k = 0; k < count; k++) to[offset + k] = from[at + k];
 }

@@ -62,7 +62,7 @@ export interface KernelLayout {
  * Runs steps `from` to `to` of the block; returns the index of the first step it could not
  * take (`to` when all went through). Accepted solutions go to `out`, `size` values per step.
  */
-export type KernelRun = (state: Float64Array, constants: Float64Array, input: Float64Array, from: number, to: number, out: Float64Array) => number;
+export type KernelRun = (state: number[], constants: readonly number[], input: Float64Array, from: number, to: number, out: Float64Array) => number;
 
 /** Thrown while generating when a part cannot be expressed (the caller keeps the general loop). */
 export class KernelUnsupported extends Error {}
@@ -81,7 +81,7 @@ export class KernelUnsupported extends Error {}
  * at that step and the caller takes the step the general way. The code is built only
  * from integers and fixed identifiers; every number is read from the constants array.
  */
-export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: KernelLayout; code: string; constants: Float64Array } {
+export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: KernelLayout; code: string; constants: readonly number[] } {
   const pool = new ConstantPool();
   const literal = (value: number): string => pool.ref(value);
   const n = spec.size;
@@ -326,7 +326,22 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
   emit(`s[${layout.reuse}] = reuse; s[${layout.reused}] = reusedTotal;`);
   emit('return i;');
   const code = lines.join('\n');
-  return { run: compiled(code), layout, code, constants: Float64Array.from(pool.values) };
+  return { run: compiled(code), layout, code, constants: doubles(pool.values) };
+}
+
+/**
+ * A plain array of doubles (the engine's packed-double kind) with these values, for the kernels'
+ * constants and state. Not a Float64Array: once any ArrayBuffer in the process has been detached
+ * (a transfer to a worker, the module loader's own messages), the engine guards every typed-array
+ * access against detachment, and the kernels make about a hundred such accesses a step; plain
+ * arrays are not affected. Measured on demo (a) with the pipeline module loaded: 20 % faster.
+ */
+export function doubles(values: readonly number[]): number[] {
+  const out: number[] = [];
+  // A non-integer first, so the array is of doubles from the start rather than changing kind later.
+  for (let i = 0; i < values.length; i++) out.push(0.5);
+  for (let i = 0; i < values.length; i++) out[i] = values[i];
+  return out;
 }
 
 /**

@@ -10,8 +10,8 @@ export type KernelPart = CapacitorPart | VoltageSourcePart | DiodePart | BjtPart
 
 /** State a part carries between steps, copied in and out around a kernel run (without allocating). */
 export interface KernelState {
-  read(into: Float64Array, at: number): void;
-  write(from: Float64Array, at: number): void;
+  read(into: number[], at: number): void;
+  write(from: readonly number[], at: number): void;
 }
 
 /** A linear capacitor; its state is [charge s₁, charge s₂, current d₁]. */

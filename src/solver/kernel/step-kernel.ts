@@ -3,7 +3,7 @@ import type { NewtonTolerances } from '../newton.ts';
 import { SparseLu } from '../sparse-lu.ts';
 import type { CircuitSystem } from '../system.ts';
 import { PivotOrderUnfit } from './elimination-code.ts';
-import { KernelUnsupported, generateStepKernel, type KernelLayout, type KernelRun } from './generate.ts';
+import { KernelUnsupported, doubles, generateStepKernel, type KernelLayout, type KernelRun } from './generate.ts';
 import type { KernelPart } from './plan.ts';
 
 /**
@@ -13,7 +13,7 @@ import type { KernelPart } from './plan.ts';
  * take turns step by step.
  */
 export class StepKernel {
-  readonly state: Float64Array;
+  readonly state: number[];
   /** Calls of `run` so far (the simulator makes the first one short). */
   calls = 0;
   private readonly parts: KernelPart[];
@@ -28,10 +28,10 @@ export class StepKernel {
     /** The generated source (for tests and for reading). */
     readonly code: string,
     /** The numbers the code reads (part values, step, tolerances). */
-    readonly constants: Float64Array,
+    readonly constants: readonly number[],
     parts: KernelPart[],
   ) {
-    this.state = new Float64Array(layout.length);
+    this.state = doubles(new Array<number>(layout.length).fill(0));
     this.parts = parts;
   }
 
