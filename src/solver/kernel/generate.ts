@@ -73,9 +73,10 @@ export class KernelUnsupported extends Error {}
  * junction limiting, LU on locals in the sparse matrix's fixed elimination order (fixed
  * parts folded), acceptance, capacitor updates. State lives in locals for the whole block.
  * It does what `Simulator.step` does on the same circuit (same equations, same acceptance
- * rules) minus the general machinery. (Reusing the last step's factors for a chord step
- * was tried and measured: +10 % on the demo transmitter, −5 % on the receiver, since the
- * folded factorisation is no longer the expensive part; not kept.)
+ * rules, held linearisations included) minus the general machinery. (A chord step that
+ * reuses the last factors but evaluates every junction afresh was tried and measured: +10 %
+ * on the demo transmitter, −5 % on the receiver; the held linearisation pays because it
+ * evaluates no exponential either.)
  *
  * Anything it cannot do (a stale pivot, Newton failing, a non-finite value) ends the block
  * at that step and the caller takes the step the general way. The code is built only
