@@ -40,7 +40,8 @@ export function summariseRender(report: RenderReport): string[] {
   const steps = s.transmitterSteps + s.receiverSteps;
   lines.push(
     `Solver: ${steps} steps (transmitter ${s.transmitterSteps}, receiver ${s.receiverSteps}; internal rate ${(s.internalRateHertz / 1000).toFixed(0)} kHz), ` +
-      `${(s.newtonIterations / Math.max(1, steps)).toFixed(2)} Newton iterations per step, ` +
+      `${(s.newtonIterations / Math.max(1, steps)).toFixed(2)} Newton iterations per step ` +
+      `(${percent((s.transmitterReusedSteps + s.receiverReusedSteps) / Math.max(1, steps))} of steps on the previous step's linearisation), ` +
       `${s.wallSeconds.toFixed(1)} s wall (${(report.durationSeconds / Math.max(1e-9, s.wallSeconds)).toFixed(2)}× real time).`,
   );
   return lines;
