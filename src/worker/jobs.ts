@@ -7,7 +7,7 @@
  */
 import { measureRender, type MetricName, type MetricValues } from '../analysis/link-metrics.ts';
 import { ConvergenceError, InputError, isUserFacing } from '../errors.ts';
-import { renderScenario, type RenderOptions } from '../link/chain/chain.ts';
+import { renderScenario } from '../link/chain/chain.ts';
 import type { Recording } from '../link/chain/source.ts';
 import type { Scenario } from '../scenario/types.ts';
 
@@ -36,9 +36,8 @@ export interface RenderJobResult {
 /** A job that ended in the user's error (bad setting, no convergence) keeps the message; bugs are thrown. */
 export type JobOutcome = { ok: true; result: RenderJobResult } | { ok: false; error: string };
 
-/** `solver`: engine settings of the place the job runs in (the page's workers keep the general step loop). */
-export function runRenderJob(job: RenderJob, solver?: RenderOptions['solver']): RenderJobResult {
-  const result = renderScenario(job.scenario, { recording: job.recording, solver });
+export function runRenderJob(job: RenderJob): RenderJobResult {
+  const result = renderScenario(job.scenario, { recording: job.recording });
   const report = result.report;
   return {
     metrics: measureRender(job.scenario, result, job.metrics),

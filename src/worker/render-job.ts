@@ -4,7 +4,7 @@
  * gather what the page shows. Core code: runs in the render worker and in
  * Node tests alike.
  */
-import { renderScenario, type RenderOptions } from '../link/chain/chain.ts';
+import { renderScenario } from '../link/chain/chain.ts';
 import { summariseRender } from '../link/chain/summary.ts';
 import type { Recording } from '../link/chain/source.ts';
 import { loadScenario, settingsSummary } from '../scenario/index.ts';
@@ -21,8 +21,6 @@ export interface JobHooks {
   onBias?: (bias: BiasTables) => void;
   onProgress?: (fraction: number) => void;
   signal?: { readonly aborted: boolean };
-  /** Engine settings of the place the job runs in. */
-  solver?: RenderOptions['solver'];
 }
 
 export function runRenderJob(request: RenderRequest, hooks: JobHooks = {}): RenderedLink {
@@ -42,7 +40,7 @@ export function runRenderJob(request: RenderRequest, hooks: JobHooks = {}): Rend
 
   const recording: Recording | undefined = request.recording ?? undefined;
   const cut = excerptOf(scenario, recording, request.excerptSeconds);
-  const result = renderScenario(cut.scenario, { recording: cut.recording, taps: PAGE_TAPS, onProgress: hooks.onProgress, signal: hooks.signal, solver: hooks.solver });
+  const result = renderScenario(cut.scenario, { recording: cut.recording, taps: PAGE_TAPS, onProgress: hooks.onProgress, signal: hooks.signal });
   if (cut.full) {
     // The report states the scenario's level, not the excerpt's stand-in.
     result.report.microphone.targetDbSpl = cut.full.targetDbSpl;

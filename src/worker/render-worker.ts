@@ -13,15 +13,6 @@ import { runRenderJob } from './render-job.ts';
 
 const scope = self as unknown as DedicatedWorkerGlobalScope;
 
-/**
- * The page renders on the general step loop, not in the generated step kernels. Measured in
- * Chromium with the page's browser test (2026-12-02): with the kernels a 3 s excerpt of demo (a)
- * took 6.6–7.4 s, the first render and later ones alike, and 10 s took 26 s; on the general loop
- * 2.7–3.8 s and 10.3 s. In Node the same kernels run about three times faster than the general
- * loop. Until that difference is understood the browser keeps the path that is faster there.
- */
-const BROWSER_SOLVER = { generatedSteps: false };
-
 function reply(message: WorkerReply, transfer: Transferable[] = []): void {
   scope.postMessage(message, transfer);
 }
@@ -29,7 +20,7 @@ function reply(message: WorkerReply, transfer: Transferable[] = []): void {
 function runJob(request: JobRequest): void {
   let answer: JobReply;
   try {
-    answer = { kind: 'job-done', id: request.id, result: runAnalysisJob(request.job, BROWSER_SOLVER) };
+    answer = { kind: 'job-done', id: request.id, result: runAnalysisJob(request.job) };
   } catch (error) {
     answer = { kind: 'job-failed', id: request.id, error: errorToData(error) };
   }
@@ -44,7 +35,6 @@ scope.onmessage = (event: MessageEvent<RenderRequest | JobRequest>) => {
   let lastPostMs = 0;
   try {
     const result = runRenderJob(request, {
-      solver: BROWSER_SOLVER,
       onBias: (bias) => reply({ kind: 'bias', id, bias }),
       onProgress: (fraction) => {
         const now = Date.now();
