@@ -295,3 +295,83 @@ describe('the contract check itself', () => {
     expect(() => checkContract(binder, stamped, bjtCurrents(bjt, order), x)).toThrow();
   });
 });
+
+/*
+ * A step on a held linearisation (newton.ts, reuseAcceptance) corrects the tangent taken at the
+ * held point with `stampHeldRemainder`: the exponentials' Taylor remainder e^x − 1 − x (A&S 4.2.1),
+ * carried through the transistor's Early factor and betas. Tangent plus remainder must give the
+ * model's own currents at the new point, to the series' truncation (x⁶/720, under 1e-13 here).
+ */
+describe('device contract: the held remainder', () => {
+  /** The tangent at the last stampAt, plus the device's held remainder, as currents into each unknown at x. */
+  function heldCurrents(binder: DenseBinder, device: { stampHeldRemainder(rhs: Float64Array, x: Float64Array): void }, x: Float64Array) {
+    const n = binder.size;
+    const remainder = new Float64Array(DenseBinder.N + 1);
+    device.stampHeldRemainder(remainder, x);
+    const tangent = new Float64Array(n);
+    const corrected = new Float64Array(n);
+    let magnitude = 0;
+    for (let r = 0; r < n; r++) {
+      let s = -binder.rhsVector[r];
+      magnitude = Math.max(magnitude, Math.abs(binder.rhsVector[r]), Math.abs(remainder[r]));
+      for (let c = 0; c < n; c++) {
+        s += binder.entry(r, c) * x[c];
+        magnitude = Math.max(magnitude, Math.abs(binder.entry(r, c) * x[c]));
+      }
+      tangent[r] = s;
+      corrected[r] = s - remainder[r];
+    }
+    return { tangent, corrected, magnitude };
+  }
+  /** Up to ±1 mV from the held point: |x| ≤ 0.04 for n = 1. */
+  const nudge = fc.double({ min: -1e-3, max: 1e-3, noNaN: true });
+
+  for (const { kind, model, light } of [
+    { kind: 'npn', model: NPN, light: 0 },
+    { kind: 'pnp', model: PNP, light: 0 },
+    { kind: 'phototransistor', model: PHOTO, light: 5e-6 },
+  ] as const) {
+    it(`${kind}: tangent at (vbe, vbc) plus the held remainder equals pinCurrents() 1 mV away within 1e-9 (the tangent alone does not)`, () => {
+      const p = kind === 'pnp' ? -1 : 1;
+      fc.assert(
+        fc.property(junctionVolts, junctionVolts, nudge, nudge, (vbe, vbc, dbe, dbc) => {
+          const binder = new DenseBinder(KELVIN);
+          const { bjt, order, base } = makeBjt(kind, model, binder, light);
+          binder.stampAt(bjt, binder.vector({ [base]: 0, e: -p * vbe, c: -p * vbc }));
+          const x = binder.vector({ [base]: 0, e: -p * (vbe + dbe), c: -p * (vbc + dbc) });
+          const exact = bjtCurrents(bjt, order)(x);
+          const { corrected, magnitude } = heldCurrents(binder, bjt, x);
+          const scale = Math.max(...exact.map(Math.abs), 1e-15);
+          for (let r = 0; r < 3; r++) expect(Math.abs(corrected[r] - exact[r])).toBeLessThanOrEqual(1e-9 * scale + 64 * EPS * magnitude);
+        }),
+        RUNS,
+      );
+      // In forward activity, 1 mV on vbe: the tangent alone is off by about ½(1 mV / VT)² = 7e-4 of the collector current.
+      const binder = new DenseBinder(KELVIN);
+      const { bjt, order, base } = makeBjt(kind, model, binder, light);
+      binder.stampAt(bjt, binder.vector({ [base]: 0, e: -p * 0.65, c: p * 2 }));
+      const x = binder.vector({ [base]: 0, e: -p * 0.651, c: p * 2 });
+      const exact = bjtCurrents(bjt, order)(x)[order[0]];
+      const { tangent, corrected } = heldCurrents(binder, bjt, x);
+      expect(Math.abs(tangent[order[0]] - exact) / Math.abs(exact)).toBeGreaterThan(5e-4);
+      expect(Math.abs(corrected[order[0]] - exact) / Math.abs(exact)).toBeLessThan(1e-9);
+    });
+  }
+
+  for (const model of [DIODE, LED]) {
+    it(`${model.kind}: tangent at v plus the held remainder equals current() 1 mV away within 1e-9`, () => {
+      fc.assert(
+        fc.property(junctionVolts, nudge, (v, dv) => {
+          const binder = new DenseBinder(KELVIN);
+          const diode = new Diode('D1', ['a', 'gnd'], { ...model, seriesResistance: 0 }, binder);
+          binder.stampAt(diode, binder.vector({ a: v }));
+          const x = binder.vector({ a: v + dv });
+          const exact = diode.current(x);
+          const { corrected, magnitude } = heldCurrents(binder, diode, x);
+          expect(Math.abs(corrected[0] - exact)).toBeLessThanOrEqual(1e-9 * Math.max(Math.abs(exact), 1e-15) + 64 * EPS * magnitude);
+        }),
+        RUNS,
+      );
+    });
+  }
+});
