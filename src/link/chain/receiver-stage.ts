@@ -6,7 +6,7 @@ import { Simulator } from '../../solver/simulator.ts';
 import { Decimator } from '../oversampler.ts';
 import { withLightInputAndSpeaker } from './rewire.ts';
 import { SubstepInput, substepHoldback } from './substep-input.ts';
-import { TapCapture, resolveTap } from './taps.ts';
+import { TapCapture, captureTaps, readsDeviceState } from './taps.ts';
 import { stageFigures, type StageFigures, type StageSettings } from './transmitter-stage.ts';
 import { updateWatches, watchTransistors, type TransistorWatch } from './transistor-watch.ts';
 
@@ -81,21 +81,9 @@ export class ReceiverStage {
     this.down = new Decimator(timing.factor);
     this.farWritten = -timing.latencySamples;
     this.watches = watchTransistors('receiver', this.simulator, h, timing.offsetSeconds);
-    const total = timing.totalSamples;
-    this.taps = tapNames.map((name) => {
-      const tap = resolveTap(name, `taps: ${name}`, { receiver: this.simulator });
-      return new TapCapture(
-        name,
-        tap.unit,
-        tap.internalRate ? timing.sampleRateHertz * timing.factor : timing.sampleRateHertz,
-        tap.source,
-        tap.internalRate ? timing.upLatencyInternal : 0,
-        tap.internalRate ? total * timing.factor : total,
-        settings.onTap,
-      );
-    });
+    this.taps = captureTaps(tapNames, { receiver: this.simulator }, timing, settings.onTap);
     this.circuitTaps = this.taps.filter((t) => t.source.stage === 'receiver');
-    this.tapsReadDevices = this.circuitTaps.some((t) => 'probe' in t.source && t.source.probe.readsDeviceState === true);
+    this.tapsReadDevices = readsDeviceState(this.circuitTaps);
     this.speakerTaps = this.taps.filter((t) => t.source.stage === 'speaker');
     this.speaker = new Float64Array(settings.chunkSamples * timing.factor);
     this.farChunk = new Float64Array(settings.chunkSamples + 1);

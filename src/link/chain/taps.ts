@@ -117,6 +117,42 @@ export function resolveTap(
   throw new InputError(where, `a tap name: ${FIXED_TAP_NAMES.join(', ')}, or transmitter.X / receiver.X (X a node, part ref or REF.PIN)`, `got "${name}"`);
 }
 
+/** Where a stage's taps sit in time: rates, the upsampler's delay, the source's length. */
+export interface TapTiming {
+  sampleRateHertz: number;
+  factor: number;
+  /** The upsampler's latency in internal samples (dropped from internal-rate taps). */
+  upLatencyInternal: number;
+  /** Source samples at the audio rate. */
+  totalSamples: number;
+}
+
+/** Captures for one stage's taps, each at the audio rate or the internal rate as the tap asks. */
+export function captureTaps(
+  names: readonly string[],
+  circuits: { transmitter?: Simulator; receiver?: Simulator },
+  timing: TapTiming,
+  sink?: (name: string, block: Float32Array) => void,
+): TapCapture[] {
+  return names.map((name) => {
+    const tap = resolveTap(name, `taps: ${name}`, circuits);
+    return new TapCapture(
+      name,
+      tap.unit,
+      tap.internalRate ? timing.sampleRateHertz * timing.factor : timing.sampleRateHertz,
+      tap.source,
+      tap.internalRate ? timing.upLatencyInternal : 0,
+      tap.internalRate ? timing.totalSamples * timing.factor : timing.totalSamples,
+      sink,
+    );
+  });
+}
+
+/** Some tap reads a device's own state: the circuit must then step one sample at a time (see probes.ts). */
+export function readsDeviceState(taps: readonly TapCapture[]): boolean {
+  return taps.some((t) => 'probe' in t.source && t.source.probe.readsDeviceState === true);
+}
+
 /** Which side of the link a tap belongs to (the receiver side: `receiver.X` and `speaker.volts`). */
 export function isReceiverTap(name: string): boolean {
   return name.startsWith('receiver.') || name === 'speaker.volts';

@@ -13,7 +13,7 @@ import { withMicrophoneResistance } from './rewire.ts';
 import { SubstepInput, substepHoldback } from './substep-input.ts';
 import type { CalibratedSource } from './source.ts';
 import { openSource, type PascalsReader, type SourceInput } from './source-stream.ts';
-import { TapCapture, resolveTap, type TapRecord } from './taps.ts';
+import { TapCapture, captureTaps, readsDeviceState, type TapRecord } from './taps.ts';
 import { finishWatches, updateWatches, watchTransistors, type TransistorEpisodes, type TransistorWatch } from './transistor-watch.ts';
 
 /** Settings shared by both stages of a render. */
@@ -183,23 +183,15 @@ export class TransmitterStage {
     this.ledCutoff = new IntervalTracker(h, this.offsetSeconds);
     this.watches = watchTransistors('transmitter', this.simulator, h, this.offsetSeconds);
 
-    const total = this.totalSamples;
-    this.taps = tapNames.map((name) => {
-      const tap = resolveTap(name, `taps: ${name}`, { transmitter: this.simulator });
-      return new TapCapture(
-        name,
-        tap.unit,
-        tap.internalRate ? this.internalRateHertz : fs,
-        tap.source,
-        tap.internalRate ? this.upLatencyInternal : 0,
-        tap.internalRate ? total * this.factor : total,
-        settings.onTap,
-      );
-    });
-
+    this.taps = captureTaps(
+      tapNames,
+      { transmitter: this.simulator },
+      { sampleRateHertz: fs, factor: this.factor, upLatencyInternal: this.upLatencyInternal, totalSamples: this.totalSamples },
+      settings.onTap,
+    );
     this.circuitTaps = this.taps.filter((t) => t.source.stage === 'transmitter');
     this.ledTaps = this.taps.filter((t) => t.source.stage === 'led');
-    this.tapsReadDevices = this.circuitTaps.some((t) => 'probe' in t.source && t.source.probe.readsDeviceState === true);
+    this.tapsReadDevices = readsDeviceState(this.circuitTaps);
     const chunk = settings.chunkSamples;
     this.pascals = new Float64Array(chunk);
     this.micVolts = new Float64Array(chunk);
