@@ -61,8 +61,6 @@ export class Simulator {
    * they have not moved (null: nothing held, or the kernel has stepped since).
    */
   private held: { stamps: number; constantStamps: number } | null = null;
-  /** The last solved step was taken on the held linearisation. */
-  private pendingHeld = false;
   private readonly scratch: Float64Array;
   /** `steps` when the kernel last handed back: its held linearisation is stale once the general loop has stepped. */
   private stepsAtKernelExit = -1;
@@ -178,7 +176,6 @@ export class Simulator {
       trial.set(x);
     }
     const outcome = this.newton.solve(trial, false, true);
-    this.pendingHeld = false;
     this.held = outcome.converged && system.keepLinearisation ? { stamps: system.stamps, constantStamps: system.constantStamps } : null;
     return outcome.converged;
   }
@@ -205,7 +202,6 @@ export class Simulator {
     outcome.iterations = 0;
     outcome.worstUnknown = -1;
     outcome.singular = false;
-    this.pendingHeld = true;
     return true;
   }
 
@@ -228,7 +224,8 @@ export class Simulator {
     this.restart = false;
     this.predict = this.newton.outcome.iterations <= HARD_STEP_ITERATIONS;
     if (!this.predict) this.history = 0;
-    if (this.pendingHeld) this.reusedSteps++;
+    // No Newton iteration: the step was solved on the held linearisation.
+    if (this.newton.outcome.iterations === 0) this.reusedSteps++;
     this.steps++;
   }
 
@@ -299,11 +296,8 @@ export class Simulator {
     kernel.storeParts();
     this.newton.totalIterations += s[layout.iterations];
     this.reusedSteps += s[layout.reused];
-    if (done === from) {
-      // The step it gave up on may have overwritten part of the held factors.
-      s[layout.reuse] = 0;
-      return done;
-    }
+    // At a step it gave up on (the general loop takes it next, which drops what the kernel holds).
+    if (done === from) return done;
     copyInto(this.x, 0, s, layout.solution, n);
     copyInto(this.previous, 0, s, layout.previous, n);
     copyInto(this.older, 0, s, layout.older, n);

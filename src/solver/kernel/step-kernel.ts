@@ -4,7 +4,7 @@ import { SparseLu } from '../sparse-lu.ts';
 import type { CircuitSystem } from '../system.ts';
 import { PivotOrderUnfit } from './elimination-code.ts';
 import { KernelUnsupported, doubles, generateStepKernel, type KernelLayout, type KernelRun } from './generate.ts';
-import type { KernelPart } from './plan.ts';
+import type { KernelPart, KernelState } from './plan.ts';
 
 /**
  * One circuit's generated trapezoidal step for one step size, input drive and
@@ -16,7 +16,8 @@ export class StepKernel {
   readonly state: number[];
   /** Calls of `run` so far (the simulator makes the first one short). */
   calls = 0;
-  private readonly parts: KernelPart[];
+  /** The parts that carry state, and where it sits in the state array. */
+  private readonly stateful: { state: KernelState; at: number }[] = [];
 
   private constructor(
     readonly stepSeconds: number,
@@ -32,7 +33,9 @@ export class StepKernel {
     parts: KernelPart[],
   ) {
     this.state = doubles(new Array<number>(layout.length).fill(0));
-    this.parts = parts;
+    parts.forEach((part, i) => {
+      if (part.kind !== 'voltage-source') this.stateful.push({ state: part.state, at: layout.partState[i] });
+    });
   }
 
   /**
@@ -71,21 +74,11 @@ export class StepKernel {
 
   /** Copies the devices' state in (the solution arrays are the caller's). */
   loadParts(): void {
-    const { state, parts } = this;
-    const at = this.layout.partState;
-    for (let i = 0; i < parts.length; i++) {
-      const part = parts[i];
-      if (part.kind !== 'voltage-source') part.state.read(state, at[i]);
-    }
+    for (const { state, at } of this.stateful) state.read(this.state, at);
   }
 
   /** Copies the devices' state out after a run. */
   storeParts(): void {
-    const { state, parts } = this;
-    const at = this.layout.partState;
-    for (let i = 0; i < parts.length; i++) {
-      const part = parts[i];
-      if (part.kind !== 'voltage-source') part.state.write(state, at[i]);
-    }
+    for (const { state, at } of this.stateful) state.write(this.state, at);
   }
 }
