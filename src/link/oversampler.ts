@@ -39,6 +39,12 @@ function stageTaps(highRateOfAudio: number, centreRemainder: number): Float64Arr
   });
 }
 
+/** Buffer `stage` of `scratches`, grown to at least `length` samples. */
+function scratch(scratches: Float64Array[], stage: number, length: number): Float64Array {
+  if (scratches[stage].length < length) scratches[stage] = new Float64Array(length);
+  return scratches[stage];
+}
+
 /** Audio rate → internal rate. process() writes factor × input.length samples. */
 export class Upsampler {
   readonly factor: OversamplingFactor;
@@ -46,8 +52,8 @@ export class Upsampler {
   readonly latencySamples: number;
   readonly latencyInternalSamples: number;
   private readonly stages: HalfBandUpStage[] = [];
-  private readonly scratchA: Float64Array;
-  private readonly scratchB: Float64Array;
+  /** Each stage's output but the last, grown to the longest block so far. */
+  private readonly scratches: Float64Array[] = [];
 
   constructor(factor: number) {
     this.factor = checkFactor(factor);
@@ -60,50 +66,27 @@ export class Upsampler {
     }
     this.latencySamples = latency;
     this.latencyInternalSamples = latency * this.factor;
-    this.scratchA = new Float64Array(this.factor);
-    this.scratchB = new Float64Array(this.factor);
+    for (let s = 1; s < this.stages.length; s++) this.scratches.push(new Float64Array(0));
   }
 
   /** Filters `input` (audio rate) into `output` (internal rate); returns the count written. */
   process(input: Float64Array, output: Float64Array): number {
-    const factor = this.factor;
-    const count = input.length * factor;
+    const count = input.length * this.factor;
     if (output.length < count) {
       throw new InputError('upsampler output', `room for ${count} samples`, `got ${output.length}`);
     }
-    const stages = this.stages;
-    const depth = stages.length;
-    if (depth === 1) {
-      const stage = stages[0];
-      for (let i = 0; i < input.length; i++) {
-        stage.push(input[i]);
-        output[2 * i] = stage.out0;
-        output[2 * i + 1] = stage.out1;
-      }
-      return count;
-    }
-    let from = this.scratchA;
-    let to = this.scratchB;
-    for (let i = 0; i < input.length; i++) {
-      from[0] = input[i];
-      let n = 1;
-      for (let s = 0; s < depth; s++) {
-        const stage = stages[s];
-        const target = s === depth - 1 ? output : to;
-        const base = s === depth - 1 ? i * factor : 0;
-        for (let k = 0; k < n; k++) {
-          stage.push(from[k]);
-          target[base + 2 * k] = stage.out0;
-          target[base + 2 * k + 1] = stage.out1;
-        }
-        n *= 2;
-        const swap = from;
-        from = to;
-        to = swap;
-      }
-    }
+    // Stage by stage over the whole block, each into the next one's input.
+    let from = input;
+    let n = input.length;
+    this.stages.forEach((stage, s) => {
+      const to = s === this.stages.length - 1 ? output : scratch(this.scratches, s, 2 * n);
+      stage.process(from, n, to);
+      from = to;
+      n *= 2;
+    });
     return count;
   }
+
 }
 
 /** Internal rate → audio rate. process() writes one sample per `factor` inputs, carrying the remainder. */
@@ -113,6 +96,8 @@ export class Decimator {
   readonly latencySamples: number;
   readonly latencyInternalSamples: number;
   private readonly stages: HalfBandDownStage[] = [];
+  /** Each stage's output but the last, grown to the longest block so far. */
+  private readonly scratches: Float64Array[] = [];
   private pending = 0;
 
   constructor(factor: number) {
@@ -126,7 +111,9 @@ export class Decimator {
     }
     this.latencySamples = latency;
     this.latencyInternalSamples = latency * this.factor;
+    for (let s = 1; s < this.stages.length; s++) this.scratches.push(new Float64Array(0));
   }
+
 
   /** How many samples the next process() call will write for `inputLength` inputs. */
   outputLengthFor(inputLength: number): number {
@@ -139,19 +126,15 @@ export class Decimator {
     if (output.length < expected) {
       throw new InputError('decimator output', `room for ${expected} samples`, `got ${output.length}`);
     }
-    const stages = this.stages;
-    const depth = stages.length;
-    let written = 0;
-    for (let i = 0; i < input.length; i++) {
-      let value = input[i];
-      let s = 0;
-      for (; s < depth; s++) {
-        const stage = stages[s];
-        if (!stage.push(value)) break;
-        value = stage.out;
-      }
-      if (s === depth) output[written++] = value;
-    }
+    // Stage by stage over the whole block; each halves the count (carrying its own odd input).
+    let from = input;
+    let n = input.length;
+    this.stages.forEach((stage, s) => {
+      const to = s === this.stages.length - 1 ? output : scratch(this.scratches, s, (n >> 1) + 1);
+      n = stage.process(from, n, to);
+      from = to;
+    });
+    const written = n;
     this.pending = (this.pending + input.length) % this.factor;
     return written;
   }
