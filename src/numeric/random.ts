@@ -1,7 +1,8 @@
 /**
  * Seeded pseudo-random numbers so that noisy runs repeat exactly.
  * xoshiro128** (Blackman & Vigna, "Scrambled linear pseudorandom number generators",
- * ACM TOMS 47(4), 2021), seeded through splitmix32; normals by the Box–Muller transform.
+ * ACM TOMS 47(4), 2021), seeded through splitmix32; normals by the polar form of the Box–Muller transform
+ * (Marsaglia & Bray, "A convenient method for generating normal variables", SIAM Review 6(3), 1964).
  */
 export class SeededRandom {
   private s0 = 0;
@@ -21,16 +22,17 @@ export class SeededRandom {
       z = Math.imul(z ^ (z >>> 13), 0xc2b2ae35) >>> 0;
       return (z ^ (z >>> 16)) >>> 0;
     };
-    this.s0 = next();
-    this.s1 = next();
-    this.s2 = next();
-    this.s3 = next();
+    // The state words are kept as int32 (same bits): small integers stay unboxed in the engine.
+    this.s0 = next() | 0;
+    this.s1 = next() | 0;
+    this.s2 = next() | 0;
+    this.s3 = next() | 0;
   }
 
   /** Uniform 32-bit unsigned integer. */
   nextUint32(): number {
-    const result = Math.imul(rotl(Math.imul(this.s1, 5) >>> 0, 7), 9) >>> 0;
-    const t = (this.s1 << 9) >>> 0;
+    const result = Math.imul(rotl(Math.imul(this.s1, 5), 7), 9) >>> 0;
+    const t = this.s1 << 9;
     this.s2 ^= this.s0;
     this.s3 ^= this.s1;
     this.s1 ^= this.s2;
@@ -51,17 +53,22 @@ export class SeededRandom {
       this.hasSpare = false;
       return this.spareNormal;
     }
+    // Polar form: a point uniform in the unit disc stands in for the angle's sine and cosine.
     let u = 0;
-    while (u === 0) u = this.uniform();
-    const v = this.uniform();
-    const radius = Math.sqrt(-2 * Math.log(u));
-    const angle = 2 * Math.PI * v;
-    this.spareNormal = radius * Math.sin(angle);
+    let v = 0;
+    let r2 = 0;
+    do {
+      u = 2 * this.uniform() - 1;
+      v = 2 * this.uniform() - 1;
+      r2 = u * u + v * v;
+    } while (r2 >= 1 || r2 === 0);
+    const scale = Math.sqrt((-2 * Math.log(r2)) / r2);
+    this.spareNormal = v * scale;
     this.hasSpare = true;
-    return radius * Math.cos(angle);
+    return u * scale;
   }
 }
 
 function rotl(x: number, k: number): number {
-  return ((x << k) | (x >>> (32 - k))) >>> 0;
+  return (x << k) | (x >>> (32 - k));
 }
