@@ -97,6 +97,24 @@ export class ReceiverStage {
 
   /** Steps the receiver through `count` more internal samples of light (watts), less its look-ahead. */
   process(light: Float64Array, count: number): void {
+    // No loop here, only in the two calls: the engine then compiles this whole, not from the middle
+    // of a loop, and a new render's far-end callback does not send it back to the interpreter.
+    const clock = performance.now();
+    const m = this.stepCircuit(light, count);
+    this.milliseconds += performance.now() - clock;
+    const produced = this.down.process(this.speaker.subarray(0, m), this.farChunk);
+    const from = Math.max(0, -this.farWritten);
+    const to = Math.min(produced, this.timing.totalSamples - this.farWritten);
+    this.measureFarEnd(from, to);
+    if (to > from) {
+      this.onFarEnd(this.farChunk.subarray(from, to), this.farWritten + from);
+      this.count += to - from;
+    }
+    this.farWritten += produced;
+  }
+
+  /** The circuit's steps for the next light samples, into `speaker`; returns how many samples. */
+  private stepCircuit(light: Float64Array, count: number): number {
     const { simulator, drive, speaker, watches, stepInputs, solutions, x } = this;
     const size = simulator.system.size;
     const substeps = this.settings.substeps.receiver;
@@ -104,7 +122,6 @@ export class ReceiverStage {
     const plus = this.speakerPlus;
     const minus = this.speakerMinus;
     const circuitTaps = this.circuitTaps;
-    const clock = performance.now();
     const m = this.substepInput.process(light, count, stepInputs);
     const first = this.index * substeps + 1;
     // A tap that reads a device's own state must see it right after its step: then one sample at a time.
@@ -118,23 +135,23 @@ export class ReceiverStage {
       updateWatches(watches, index, x);
       for (const tap of circuitTaps) tap.push((tap.source as { probe: (x: Float64Array) => number }).probe(x));
     }
-    this.milliseconds += performance.now() - clock;
+    return m;
+  }
 
-    const produced = this.down.process(speaker.subarray(0, m), this.farChunk);
-    const from = Math.max(0, -this.farWritten);
-    const to = Math.min(produced, this.timing.totalSamples - this.farWritten);
+  /** Far-end samples `from`…`to` of the last chunk into the level, the peak and the speaker taps. */
+  private measureFarEnd(from: number, to: number): void {
+    const far = this.farChunk;
     const speakerTaps = this.speakerTaps;
+    let squares = this.squares;
+    let peak = this.peak;
     for (let i = from; i < to; i++) {
-      const v = this.farChunk[i];
-      this.squares += v * v;
-      if (Math.abs(v) > this.peak) this.peak = Math.abs(v);
+      const v = far[i];
+      squares += v * v;
+      if (Math.abs(v) > peak) peak = Math.abs(v);
       for (const tap of speakerTaps) tap.push(v);
     }
-    if (to > from) {
-      this.onFarEnd(this.farChunk.subarray(from, to), this.farWritten + from);
-      this.count += to - from;
-    }
-    this.farWritten += produced;
+    this.squares = squares;
+    this.peak = peak;
   }
 
   summary(): ReceiverSummary {
