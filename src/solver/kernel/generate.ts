@@ -213,10 +213,11 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
   const heldRhs = new Map(rhsRows.map((row, i) => [row, layout.heldRhs + i]));
 
   emit('"use strict";');
-  // The solution lives in locals; the two points before it stay in the state array (only the predictor reads them).
+  // The solution and the two points before it (the predictor's) live in locals.
   emit(declare((k) => `x${k} = s[${k}]`));
+  emit(declare((k) => `p${k} = s[${n + k}], o${k} = s[${2 * n + k}]`));
   emit(declare((k) => `t${k} = 0, n${k} = 0`));
-  for (const { id, at } of capacitors) emit(`let ${id}s1 = s[${at}], ${id}d1 = s[${at + 2}];`);
+  for (const { id, at } of capacitors) emit(`let ${id}s0 = s[${at + 1}], ${id}s1 = s[${at}], ${id}d1 = s[${at + 2}];`);
   for (const { id, at } of diodes) emit(`let ${id}v = s[${at}];`);
   for (const { id, at } of bjts) emit(`let ${id}be = s[${at}], ${id}bc = s[${at + 1}], ${id}ph = s[${at + 2}];`);
   // Small integers held as such (| 0): a counter that arrives as a double would send the engine back to unoptimised code.
@@ -268,7 +269,7 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
   emit('const c0 = two ? 3 : one ? 2 : 1;');
   emit('const c1 = two ? -3 : one ? -1 : 0;');
   emit('const c2 = two ? 1 : 0;');
-  emit(all((k) => `t${k} = c0 * x${k} + c1 * s[${n + k}] + c2 * s[${2 * n + k}];`));
+  emit(all((k) => `t${k} = c0 * x${k} + c1 * p${k} + c2 * o${k};`));
 
   emit(`for (let it = 1; !converged && it <= ${int(tol.maxIterations)}; it++) {`);
   emit('iterations = it; iterationsTotal++;');
@@ -311,16 +312,16 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
   emit('}'); // a fresh linearisation
   // Accept: capacitor histories, predictor points, output.
   for (const { part, id, at } of capacitors) {
-    emit(`{ const sq = ${literal(part.farads)} * (${voltage('t', part.a)} - ${voltage('t', part.b)}); const dq = ${literal(2 / h)} * sq + ${id}h; s[${at + 1}] = ${id}s1; ${id}s1 = sq; ${id}d1 = dq; }`);
+    emit(`{ const sq = ${literal(part.farads)} * (${voltage('t', part.a)} - ${voltage('t', part.b)}); const dq = ${literal(2 / h)} * sq + ${id}h; ${id}s0 = ${id}s1; ${id}s1 = sq; ${id}d1 = dq; }`);
   }
-  emit(all((k) => `s[${2 * n + k}] = s[${n + k}]; s[${n + k}] = x${k}; x${k} = t${k};`));
+  emit(all((k) => `o${k} = p${k}; p${k} = x${k}; x${k} = t${k};`));
   emit('history = history < 2 ? history + 1 : 2;');
   emit(`predict = iterations <= ${int(HARD_STEP_ITERATIONS)} ? 1 : 0; if (predict === 0) history = 0;`);
   emit(`{ const at = i * ${int(n)}; ${all((k) => `out[at + ${k}] = x${k};`)} }`);
   emit('}'); // steps
   // Write the state back.
-  emit(all((k) => `s[${k}] = x${k};`));
-  for (const { id, at } of capacitors) emit(`s[${at}] = ${id}s1; s[${at + 2}] = ${id}d1;`);
+  emit(all((k) => `s[${k}] = x${k}; s[${n + k}] = p${k}; s[${2 * n + k}] = o${k};`));
+  for (const { id, at } of capacitors) emit(`s[${at}] = ${id}s1; s[${at + 1}] = ${id}s0; s[${at + 2}] = ${id}d1;`);
   for (const { id, at } of diodes) emit(`s[${at}] = ${id}v;`);
   for (const { id, at } of bjts) emit(`s[${at}] = ${id}be; s[${at + 1}] = ${id}bc; s[${at + 2}] = ${id}ph;`);
   emit(`s[${layout.history}] = history; s[${layout.predict}] = predict; s[${layout.iterations}] = iterationsTotal;`);
