@@ -157,6 +157,7 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
   const junctions = diodes.length > 0 || bjts.length > 0;
   const early = tol.quadraticAcceptance > 0 && junctions;
   const reuse = tol.reuseAcceptance > 0 && junctions;
+  const heldStart = offset;
   if (reuse) {
     for (const d of diodes) {
       d.heldAt = offset;
@@ -188,6 +189,7 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
       stampedRows.add(row);
       emit(`w${row} ${op} ${expr};`);
     },
+    held: (slot) => `h${int(slot)}`,
   };
   const newtonStamps: string[] = [];
   sink = newtonStamps;
@@ -211,6 +213,9 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
     length: offset + 5 + rhsRows.length + elimination.held.length,
   };
   const heldRhs = new Map(rhsRows.map((row, i) => [row, layout.heldRhs + i]));
+  // What is held for later steps (the junctions' values, the right-hand side, the factors) also
+  // lives in locals: loads from the state array cost a check each, and a held step reads them all.
+  const heldSlots = reuse ? [...range(heldStart, layout.history), ...range(layout.heldRhs, layout.length)] : [];
 
   emit('"use strict";');
   // The solution and the two points before it (the predictor's) live in locals.
@@ -223,6 +228,7 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
   // Small integers held as such (| 0): a counter that arrives as a double would send the engine back to unoptimised code.
   emit(`let history = s[${layout.history}] | 0, predict = s[${layout.predict}] | 0, iterationsTotal = s[${layout.iterations}] | 0;`);
   emit(`let reuse = s[${layout.reuse}] | 0, reusedTotal = s[${layout.reused}] | 0;`);
+  if (heldSlots.length > 0) emit(`let ${heldSlots.map((at) => `${context.held(at)} = s[${int(at)}]`).join(', ')};`);
   emit('let i = from;');
   emit('steps: for (; i < to; i++) {');
   emit('const u = input[i];');
@@ -234,9 +240,9 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
     // Kept when every junction stays as close to the voltage it was linearised at as the quadratic
     // acceptance below asks of a fresh linearisation.
     emit('if (reuse === 1) {');
-    emit(declare((k) => (heldRhs.has(k) ? `w${k} = r${k} + s[${int(heldRhs.get(k) as number)}]` : `w${k} = r${k}`)));
+    emit(declare((k) => (heldRhs.has(k) ? `w${k} = r${k} + ${context.held(heldRhs.get(k) as number)}` : `w${k} = r${k}`)));
     emit('{');
-    for (const line of elimination.solveHeld((index) => `s[${int(layout.heldFactors + index)}]`)) emit(line);
+    for (const line of elimination.solveHeld((index) => context.held(layout.heldFactors + index))) emit(line);
     emit('}');
     emit('let worst = 0;');
     for (const d of diodes) diodeLinearisationError(context, d);
@@ -250,7 +256,7 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
       for (const d of diodes) diodeCorrection(context, d);
       for (const t of bjts) bjtCorrection(context, t);
       const zeroRows = new Set(Array.from({ length: n }, (_, k) => k).filter((k) => !heldRhs.has(k)));
-      for (const line of elimination.solveHeld((index) => `s[${int(layout.heldFactors + index)}]`, zeroRows)) emit(line);
+      for (const line of elimination.solveHeld((index) => context.held(layout.heldFactors + index), zeroRows)) emit(line);
       emit(all((k) => `t${k} += n${k};`));
       emit('}');
     }
@@ -278,12 +284,12 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
   const stampedSlots = [...stamped].sort((a, b) => a - b);
   if (stampedSlots.length > 0) emit(`let ${stampedSlots.map((sl) => `v${sl} = ${literal(constantOf(sl))}`).join(', ')};`);
   for (const line of newtonStamps) emit(line);
-  if (reuse) for (const [row, at] of heldRhs) emit(`s[${int(at)}] = w${row} - r${row};`);
+  if (reuse) for (const [row, at] of heldRhs) emit(`${context.held(at)} = w${row} - r${row};`);
   // Elimination in the sparse matrix's order, fixed parts folded; a pivot that has gone small ends the block.
   emit('{');
   for (const line of elimination.factor) emit(line);
   if (reuse) {
-    elimination.held.forEach((f, index) => emit(`s[${int(layout.heldFactors + index)}] = ${f.inverse ? `1 / v${int(f.slot)}` : `v${int(f.slot)}`};`));
+    elimination.held.forEach((f, index) => emit(`${context.held(layout.heldFactors + index)} = ${f.inverse ? `1 / v${int(f.slot)}` : `v${int(f.slot)}`};`));
   }
   for (const line of elimination.solve) emit(line);
   emit('}');
@@ -326,6 +332,7 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
   for (const { id, at } of bjts) emit(`s[${at}] = ${id}be; s[${at + 1}] = ${id}bc; s[${at + 2}] = ${id}ph;`);
   emit(`s[${layout.history}] = history; s[${layout.predict}] = predict; s[${layout.iterations}] = iterationsTotal;`);
   emit(`s[${layout.reuse}] = reuse; s[${layout.reused}] = reusedTotal;`);
+  if (heldSlots.length > 0) emit(heldSlots.map((at) => `s[${int(at)}] = ${context.held(at)};`).join(' '));
   emit('return i;');
   const code = lines.join('\n');
   return { run: compiled(code), layout, code, constants: doubles(pool.values) };
@@ -362,4 +369,9 @@ function compiled(code: string): KernelRun {
     FUNCTIONS.set(code, run);
   }
   return run;
+}
+
+/** from, from + 1, …, to − 1. */
+function range(from: number, to: number): number[] {
+  return Array.from({ length: to - from }, (_, i) => from + i);
 }
