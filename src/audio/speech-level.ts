@@ -72,18 +72,20 @@ export class SpeechEnergy {
   peak = 0;
 
   push(samples: Float64Array | Float32Array): void {
+    const first = this.count;
+    this.count += samples.length;
     let sumSquares = this.sumSquares;
     let peak = this.peak;
     for (let i = 0; i < samples.length; i++) {
       const x = samples[i];
-      if (!Number.isFinite(x)) throw new InputError(`samples[${this.count + i}]`, 'a finite number', `got ${x}`);
+      if (!Number.isFinite(x)) throw new InputError(`samples[${first + i}]`, 'a finite number', `got ${x}`);
       sumSquares += x * x;
       const magnitude = Math.abs(x);
-      if (magnitude > peak) peak = magnitude;
+      peak = magnitude > peak ? magnitude : peak;
+      // Stored every sample (see SpeechActivity.push).
+      this.sumSquares = sumSquares;
+      this.peak = peak;
     }
-    this.sumSquares = sumSquares;
-    this.peak = peak;
-    this.count += samples.length;
   }
 }
 
@@ -104,6 +106,12 @@ export class SpeechActivity {
     this.g = Math.exp(-1 / (sampleRateHertz * P56_ENVELOPE_SECONDS));
   }
 
+  /**
+   * The engine compiles this long loop while it runs. Anything it has not yet run then (a branch
+   * first taken when speech begins after silence, stores after the loop) would send the compiled
+   * loop back to the interpreter, there and in the next render: hence no branches, and the state
+   * stored every sample rather than after the loop.
+   */
   push(samples: Float64Array | Float32Array): void {
     const { g, thresholds, activeCounts, hangCounters, hangoverSamples } = this;
     let q = this.q;
@@ -112,17 +120,16 @@ export class SpeechActivity {
       q = g * q + (1 - g) * Math.abs(samples[i]);
       p = g * p + (1 - g) * q;
       for (let j = 0; j < LADDER_STEPS; j++) {
-        if (p >= thresholds[j]) {
-          activeCounts[j]++;
-          hangCounters[j] = 0;
-        } else if (hangCounters[j] < hangoverSamples) {
-          activeCounts[j]++;
-          hangCounters[j]++;
-        }
+        // Active above the threshold, and for the hangover after it.
+        const above = p >= thresholds[j] ? 1 : 0;
+        const hang = hangCounters[j];
+        const hanging = hang < hangoverSamples ? 1 : 0;
+        activeCounts[j] += above | hanging;
+        hangCounters[j] = above === 1 ? 0 : hang + hanging;
       }
+      this.q = q;
+      this.p = p;
     }
-    this.q = q;
-    this.p = p;
   }
 
   /** The level from the counts and the first pass's energy. */
