@@ -242,9 +242,11 @@ export class Simulator {
     while (i < to) {
       const kernel = this.readyKernel(stepSeconds, drive);
       if (kernel) {
-        // A new kernel's first call takes one step, so that its way in and out has run before the
-        // engine optimises it in mid-loop (else its first return sends it back to unoptimised code).
-        const end = kernel.calls === 0 ? Math.min(to, i + 1) : to;
+        // A new kernel's first calls take one step each, so that its way in and out has run, with
+        // the engine recording what it meets, before the engine compiles it in mid-loop: else each
+        // return from that code sends it back to the interpreter (the engine records nothing for a
+        // function until it has run about eight times its own length).
+        const end = kernel.calls < PRIMING_CALLS ? Math.min(to, i + 1) : to;
         i = this.runKernel(kernel, inputs, i, end, firstStep, solutions);
         if (i >= to) break;
         if (i === end) continue;
@@ -325,6 +327,9 @@ export class Simulator {
     );
   }
 }
+
+/** One-step kernel calls before the long ones (see `runBlock`). */
+const PRIMING_CALLS = 32;
 
 /** Copies `count` values from `from[at…]` to `to[offset…]` without making a view (this runs once per step on the general loop). */
 function copyInto(to: Float64Array | number[], offset: number, from: Float64Array | readonly number[], at: number, count: number): void {
