@@ -89,52 +89,88 @@ export class SpeechEnergy {
   }
 }
 
-/** Second pass: the envelope against the threshold ladder under the peak. */
+/**
+ * Second pass: the envelope against the threshold ladder under the peak. The rungs are nested
+ * (c_j halves with j), so at each sample the envelope is at or above every rung from some j₀ on
+ * and below the rest: the pass follows j₀, which moves a rung or so per sample, instead of
+ * testing all LADDER_STEPS rungs. A rung's active count is then its samples at or above it plus,
+ * for each stretch below it after it was reached, the stretch's length up to the hangover: the
+ * same counts as a counter per rung and sample (see the tests), in a fraction of the time.
+ */
 export class SpeechActivity {
   private readonly thresholds = new Float64Array(LADDER_STEPS);
-  private readonly activeCounts = new Float64Array(LADDER_STEPS);
-  private readonly hangCounters = new Int32Array(LADDER_STEPS);
+  /** Samples whose lowest rung reached is j (index LADDER_STEPS: none reached). */
+  private readonly lowestReached = new Float64Array(LADDER_STEPS + 1);
+  /** Hangover samples counted for each rung, from stretches below it that have ended. */
+  private readonly hangoverCounts = new Float64Array(LADDER_STEPS);
+  /** Where the stretch below each rung began (the sample after it was last reached); −1: none open. */
+  private readonly belowSince = new Float64Array(LADDER_STEPS).fill(-1);
   private readonly hangoverSamples: number;
   private readonly g: number;
   private q = 0;
   private p = 0;
+  /** The lowest rung index the envelope is at or above (LADDER_STEPS: none). */
+  private reached = LADDER_STEPS;
+  private samples = 0;
 
   constructor(peak: number, sampleRateHertz: number) {
     for (let j = 0; j < LADDER_STEPS; j++) this.thresholds[j] = peak * 2 ** -j;
     this.hangoverSamples = Math.round(P56_HANGOVER_SECONDS * sampleRateHertz);
-    this.hangCounters.fill(this.hangoverSamples); // start "expired": nothing is active before the envelope rises
     this.g = Math.exp(-1 / (sampleRateHertz * P56_ENVELOPE_SECONDS));
   }
 
   /**
-   * The engine compiles this long loop while it runs. Anything it has not yet run then (a branch
-   * first taken when speech begins after silence, stores after the loop) would send the compiled
-   * loop back to the interpreter, there and in the next render: hence no branches, and the state
-   * stored every sample rather than after the loop.
+   * The engine compiles this long loop while it runs; stores after the loop, not yet run then,
+   * would send the compiled loop back to the interpreter in every render: so the state is stored
+   * every sample.
    */
   push(samples: Float64Array | Float32Array): void {
-    const { g, thresholds, activeCounts, hangCounters, hangoverSamples } = this;
+    const { g, thresholds, lowestReached, hangoverCounts, belowSince, hangoverSamples } = this;
     let q = this.q;
     let p = this.p;
+    let reached = this.reached;
+    const first = this.samples;
+    this.samples += samples.length;
     for (let i = 0; i < samples.length; i++) {
       q = g * q + (1 - g) * Math.abs(samples[i]);
       p = g * p + (1 - g) * q;
-      for (let j = 0; j < LADDER_STEPS; j++) {
-        // Active above the threshold, and for the hangover after it.
-        const above = p >= thresholds[j] ? 1 : 0;
-        const hang = hangCounters[j];
-        const hanging = hang < hangoverSamples ? 1 : 0;
-        activeCounts[j] += above | hanging;
-        hangCounters[j] = above === 1 ? 0 : hang + hanging;
+      const at = first + i;
+      // Rungs the envelope has come up to: a stretch below them ends here.
+      while (reached > 0 && p >= thresholds[reached - 1]) {
+        reached--;
+        const since = belowSince[reached];
+        if (since >= 0) hangoverCounts[reached] += Math.min(at - since, hangoverSamples);
+        belowSince[reached] = -1;
       }
+      // Rungs it has fallen below: a stretch below them begins here.
+      while (reached < LADDER_STEPS && p < thresholds[reached]) {
+        belowSince[reached] = at;
+        reached++;
+      }
+      lowestReached[reached]++;
       this.q = q;
       this.p = p;
+      this.reached = reached;
     }
+  }
+
+  /** Active samples per rung: at or above it, or within the hangover after it. */
+  private activeCounts(): Float64Array {
+    const counts = new Float64Array(LADDER_STEPS);
+    let atOrAbove = 0;
+    for (let j = 0; j < LADDER_STEPS; j++) {
+      atOrAbove += this.lowestReached[j];
+      const since = this.belowSince[j];
+      const open = since >= 0 ? Math.min(this.samples - since, this.hangoverSamples) : 0;
+      counts[j] = atOrAbove + this.hangoverCounts[j] + open;
+    }
+    return counts;
   }
 
   /** The level from the counts and the first pass's energy. */
   level(energy: SpeechEnergy): SpeechLevel {
-    const { thresholds, activeCounts } = this;
+    const thresholds = this.thresholds;
+    const activeCounts = this.activeCounts();
     const { sumSquares, count: n } = energy;
     const longTermRmsDb = 10 * Math.log10(sumSquares / n);
     // Walk from the lowest threshold (largest count, A − C large) upwards until A − C ≤ M.

@@ -155,3 +155,82 @@ describe('activeSpeechLevelOf (the same measurement in two passes over chunks)',
     expect(() => activeSpeechLevelOf(RATE, chunked(signal, 3, 10))).toThrow(/^samples\[77\]/);
   });
 });
+
+/**
+ * The method as P.56 writes it, with a hangover counter per threshold stepped at every sample
+ * (the straightforward form of step 3 in speech-level.ts); the same ladder and interpolation.
+ */
+function ladderPerSample(x: Float64Array, rate: number): { activeLevelDb: number; activityFactor: number } {
+  let sumSquares = 0;
+  let peak = 0;
+  for (const v of x) {
+    sumSquares += v * v;
+    peak = Math.max(peak, Math.abs(v));
+  }
+  const steps = 25;
+  const thresholds = Array.from({ length: steps }, (_, j) => peak * 2 ** -j);
+  const hangover = Math.round(P56_HANGOVER_SECONDS * rate);
+  const counts = new Array<number>(steps).fill(0);
+  const hang = new Array<number>(steps).fill(hangover);
+  const g = Math.exp(-1 / (rate * 0.03));
+  let q = 0;
+  let p = 0;
+  for (const v of x) {
+    q = g * q + (1 - g) * Math.abs(v);
+    p = g * p + (1 - g) * q;
+    for (let j = 0; j < steps; j++) {
+      if (p >= thresholds[j]) {
+        counts[j]++;
+        hang[j] = 0;
+      } else if (hang[j] < hangover) {
+        counts[j]++;
+        hang[j]++;
+      }
+    }
+  }
+  let previousA = NaN;
+  let previousDelta = NaN;
+  let activeLevelDb = NaN;
+  for (let j = steps - 1; j >= 0; j--) {
+    if (counts[j] === 0) break;
+    const a = 10 * Math.log10(sumSquares / counts[j]);
+    const delta = a - 20 * Math.log10(thresholds[j]);
+    if (delta <= 15.9) {
+      activeLevelDb = Number.isNaN(previousDelta) ? a : previousA + ((previousDelta - 15.9) / (previousDelta - delta)) * (a - previousA);
+      break;
+    }
+    previousA = a;
+    previousDelta = delta;
+  }
+  if (Number.isNaN(activeLevelDb)) activeLevelDb = Number.isNaN(previousA) ? 10 * Math.log10(sumSquares / x.length) : previousA;
+  return { activeLevelDb, activityFactor: Math.min(1, sumSquares / x.length / 10 ** (activeLevelDb / 10)) };
+}
+
+describe('the rung-following pass', () => {
+  it('counts exactly as a hangover counter per rung and sample would, on bursts, fades and clicks, in chunks or whole', () => {
+    const rng = new SeededRandom(77);
+    for (let trial = 0; trial < 12; trial++) {
+      // Bursts of noise of random length and level with silences between, some with slow fades.
+      const x = new Float64Array(3 * RATE);
+      let n = 0;
+      while (n < x.length) {
+        const burst = Math.floor(rng.uniform() * 0.4 * RATE);
+        const level = 10 ** (-3 * rng.uniform());
+        const fade = rng.uniform() < 0.3;
+        for (let k = 0; k < burst && n < x.length; k++, n++) x[n] = level * (fade ? 1 - k / burst : 1) * rng.normal();
+        n += Math.floor(rng.uniform() * 0.35 * RATE);
+      }
+      if (trial === 0) x.fill(0).fill(0.9, 100, 101); // a single click
+      const expected = ladderPerSample(x, RATE);
+      const whole = activeSpeechLevel(x, RATE);
+      expect(whole.activeLevelDb).toBe(expected.activeLevelDb);
+      expect(whole.activityFactor).toBe(expected.activityFactor);
+      const chunk = 1 + Math.floor(rng.uniform() * 700);
+      const chunked = activeSpeechLevelOf(RATE, (take) => {
+        for (let i = 0; i < x.length; i += chunk) take(x.subarray(i, Math.min(x.length, i + chunk)));
+      });
+      expect(chunked.activeLevelDb).toBe(expected.activeLevelDb);
+    }
+  });
+});
+
