@@ -143,9 +143,15 @@ export class Diode implements TwoTerminal {
     ];
   }
 
-  /** Current through the junction alone (no capacitance), in amperes. */
-  junctionCurrent(x: Float64Array): number {
-    evaluateJunction(voltageAt(x, this.junction) - voltageAt(x, this.cathode), this.saturationAmperes, this.emissionVolts, this.point);
+  /**
+   * Current through the junction alone (no capacitance), in amperes, at the solution in x, or
+   * at the one that starts at x[offset] (a row of a block of solutions, read in place).
+   */
+  junctionCurrent(x: Float64Array, offset = 0): number {
+    const j = this.junction;
+    const c = this.cathode;
+    const volts = (j < 0 ? 0 : x[offset + j]) - (c < 0 ? 0 : x[offset + c]);
+    evaluateJunction(volts, this.saturationAmperes, this.emissionVolts, this.point);
     return this.point.amperes;
   }
 

@@ -34,6 +34,10 @@ describe('the LED as a light source', () => {
       expect(device.wattsPerAmpere).toBeCloseTo(0.19680031497, 10);
       expect(Math.abs(device.opticalWatts(x) / (device.junctionCurrent(x) * 0.19680031497) - 1)).toBeLessThan(1e-9);
       expect(Math.abs(device.junctionCurrent(x) / amperes - 1)).toBeLessThan(1e-6);
+      // Read in place from a row of a block of solutions, as the transmitter stage does.
+      const block = new Float64Array(3 * x.length).fill(7);
+      block.set(x, x.length);
+      expect(device.junctionCurrent(block, x.length)).toBe(device.junctionCurrent(x));
     }
   });
 

@@ -126,13 +126,15 @@ export class ReceiverStage {
     const first = this.index * substeps + 1;
     // A tap that reads a device's own state must see it right after its step: then one sample at a time.
     const run = this.tapsReadDevices ? 1 : m;
+    const probed = circuitTaps.length > 0;
     for (let i = 0; i < m; i++) {
       if (i % run === 0) simulator.runBlock(hSub, drive, stepInputs, i * substeps, Math.min(m, i + run) * substeps, first, solutions);
       const index = this.index++;
+      // The sample's solution is read in place; copied out only for probes that want it whole.
       const row = (i * substeps + substeps - 1) * size;
-      for (let k = 0; k < size; k++) x[k] = solutions[row + k];
-      speaker[i] = (plus < 0 ? 0 : x[plus]) - (minus < 0 ? 0 : x[minus]);
-      updateWatches(watches, index, x);
+      if (probed) for (let k = 0; k < size; k++) x[k] = solutions[row + k];
+      speaker[i] = (plus < 0 ? 0 : solutions[row + plus]) - (minus < 0 ? 0 : solutions[row + minus]);
+      updateWatches(watches, index, solutions, row);
       for (const tap of circuitTaps) tap.push((tap.source as { probe: (x: Float64Array) => number }).probe(x));
     }
     return m;

@@ -6,7 +6,7 @@ import { IntervalTracker, toEpisodes, type Episodes } from './intervals.ts';
 export interface TransistorWatch {
   circuit: 'transmitter' | 'receiver';
   ref: string;
-  /** Where its terminals sit in the solution (ground: the solution's last entry, always 0). */
+  /** Where its terminals sit in the solution (−1: ground). */
   collector: number;
   base: number;
   emitter: number;
@@ -24,8 +24,7 @@ export function watchTransistors(
   samplePeriodSeconds: number,
   offsetSeconds: number,
 ): TransistorWatch[] {
-  const ground = simulator.system.size;
-  const at = (index: number): number => (index < 0 ? ground : index);
+  const at = (index: number): number => (index < 0 ? -1 : index);
   return simulator.system.devices
     .filter((device): device is Bjt => device instanceof Bjt)
     .map((device) => {
@@ -45,16 +44,18 @@ export function watchTransistors(
 }
 
 /**
- * Feeds sample `index` of solution x (with x[size] = 0 for ground) to every watch: the same
- * classification as `Bjt.region`, written out because it runs for every transistor at
- * every internal sample.
+ * Feeds sample `index`, the solution that starts at values[offset], to every watch: the same
+ * classification as `Bjt.region`, written out because it runs for every transistor at every
+ * internal sample (and reading the row in place: copying it cost more than the test).
  */
-export function updateWatches(watches: readonly TransistorWatch[], index: number, x: Float64Array): void {
+export function updateWatches(watches: readonly TransistorWatch[], index: number, values: Float64Array, offset: number): void {
   for (let k = 0; k < watches.length; k++) {
     const w = watches[k];
-    const vb = x[w.base];
-    const emitterOn = w.polarity * (vb - x[w.emitter]) > w.conductingVolts;
-    const collectorOn = w.polarity * (vb - x[w.collector]) > w.conductingVolts;
+    const vb = w.base < 0 ? 0 : values[offset + w.base];
+    const ve = w.emitter < 0 ? 0 : values[offset + w.emitter];
+    const vc = w.collector < 0 ? 0 : values[offset + w.collector];
+    const emitterOn = w.polarity * (vb - ve) > w.conductingVolts;
+    const collectorOn = w.polarity * (vb - vc) > w.conductingVolts;
     w.saturation.update(index, emitterOn && collectorOn);
     w.cutoff.update(index, !emitterOn && !collectorOn);
   }

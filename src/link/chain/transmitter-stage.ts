@@ -278,12 +278,14 @@ export class TransmitterStage {
     const first = step * substeps + 1;
     // A tap that reads a device's own state must see it right after its step: then one sample at a time.
     const run = this.tapsReadDevices ? 1 : m;
+    const probed = circuitTaps.length > 0;
     for (let i = 0; i < m; i++) {
       if (i % run === 0) simulator.runBlock(hSub, drive, stepInputs, i * substeps, Math.min(m, i + run) * substeps, first, solutions);
       step++;
+      // The sample's solution is read in place; copied out only for probes that want it whole.
       const row = (i * substeps + substeps - 1) * size;
-      for (let k = 0; k < size; k++) x[k] = solutions[row + k];
-      const amperes = led.junctionCurrent(x);
+      if (probed) for (let k = 0; k < size; k++) x[k] = solutions[row + k];
+      const amperes = led.junctionCurrent(solutions, row);
       emitterWatts[i] = amperes > 0 ? amperes * led.wattsPerAmpere : 0;
       const index = step - 1;
       ledCutoff.update(index, amperes < cutoffAmperes);
@@ -293,7 +295,7 @@ export class TransmitterStage {
         ledSum += amperes;
         ledCount++;
       }
-      updateWatches(watches, index, x);
+      updateWatches(watches, index, solutions, row);
       for (const tap of ledTaps) tap.push(amperes);
       for (const tap of circuitTaps) tap.push((tap.source as { probe: (x: Float64Array) => number }).probe(x));
     }

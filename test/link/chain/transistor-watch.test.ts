@@ -9,7 +9,7 @@ import { Simulator } from '../../../src/solver/simulator.ts';
 /*
  * The watch's written-out classification against the transistor's own `region`
  * (active, saturation, cut-off, reverse) on solutions drawn at random: NPN and PNP,
- * grounded emitters, internal collector nodes.
+ * grounded emitters, internal collector nodes; the solution read in place from a block of rows.
  */
 describe('transistor watches', () => {
   it('classify every transistor of the demo receiver as Bjt.region does, sample for sample', () => {
@@ -22,7 +22,10 @@ describe('transistor watches', () => {
         const watches = watchTransistors('receiver', simulator, 1e-5, 0);
         const x = new Float64Array(size + 1);
         x.set(volts);
-        updateWatches(watches, 0, x);
+        // Read in place as a row of a block of solutions, with other rows around it.
+        const block = new Float64Array(3 * size).fill(99);
+        block.set(volts, size);
+        updateWatches(watches, 0, block, size);
         watches.forEach((w, k) => {
           w.saturation.finish();
           w.cutoff.finish();
