@@ -76,17 +76,17 @@ export class Upsampler {
       throw new InputError('upsampler output', `room for ${count} samples`, `got ${output.length}`);
     }
     // Stage by stage over the whole block, each into the next one's input.
+    const last = this.stages.length - 1;
     let from = input;
     let n = input.length;
-    this.stages.forEach((stage, s) => {
-      const to = s === this.stages.length - 1 ? output : scratch(this.scratches, s, 2 * n);
-      stage.process(from, n, to);
+    for (let s = 0; s <= last; s++) {
+      const to = s === last ? output : scratch(this.scratches, s, 2 * n);
+      this.stages[s].process(from, n, to);
       from = to;
       n *= 2;
-    });
+    }
     return count;
   }
-
 }
 
 /** Internal rate → audio rate. process() writes one sample per `factor` inputs, carrying the remainder. */
@@ -114,7 +114,6 @@ export class Decimator {
     for (let s = 1; s < this.stages.length; s++) this.scratches.push(new Float64Array(0));
   }
 
-
   /** How many samples the next process() call will write for `inputLength` inputs. */
   outputLengthFor(inputLength: number): number {
     return Math.floor((this.pending + inputLength) / this.factor);
@@ -127,13 +126,14 @@ export class Decimator {
       throw new InputError('decimator output', `room for ${expected} samples`, `got ${output.length}`);
     }
     // Stage by stage over the whole block; each halves the count (carrying its own odd input).
+    const last = this.stages.length - 1;
     let from = input;
     let n = input.length;
-    this.stages.forEach((stage, s) => {
-      const to = s === this.stages.length - 1 ? output : scratch(this.scratches, s, (n >> 1) + 1);
-      n = stage.process(from, n, to);
+    for (let s = 0; s <= last; s++) {
+      const to = s === last ? output : scratch(this.scratches, s, (n >> 1) + 1);
+      n = this.stages[s].process(from, n, to);
       from = to;
-    });
+    }
     const written = n;
     this.pending = (this.pending + input.length) % this.factor;
     return written;

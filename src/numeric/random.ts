@@ -1,8 +1,9 @@
 /**
  * Seeded pseudo-random numbers so that noisy runs repeat exactly.
  * xoshiro128** (Blackman & Vigna, "Scrambled linear pseudorandom number generators",
- * ACM TOMS 47(4), 2021), seeded through splitmix32; normals by the polar form of the Box–Muller transform
- * (Marsaglia & Bray, "A convenient method for generating normal variables", SIAM Review 6(3), 1964).
+ * ACM TOMS 47(4), 2021), seeded through splitmix32; normals by the polar form of the
+ * Box–Muller transform (Marsaglia & Bray, "A convenient method for generating normal
+ * variables", SIAM Review 6(3), 1964).
  */
 export class SeededRandom {
   private s0 = 0;
