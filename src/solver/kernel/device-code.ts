@@ -12,8 +12,6 @@ export interface DeviceCodeContext {
   voltage(prefix: string, index: number): string;
   stampMatrix(row: number, col: number, op: '+=' | '-=', expr: string): void;
   stampRhs(row: number, op: '+=' | '-=', expr: string): void;
-  /** The local that carries held value `slot` of the state array through the run. */
-  held(slot: number): string;
 }
 
 /** A junction device in the kernel: its part and its name prefix in the code. */
@@ -51,7 +49,7 @@ export function diodeNewton(c: DeviceCodeContext, { part, id, heldAt }: Junction
   c.emit(limitCode(c.pool, 'v', `${id}v`, part));
   c.emit(`${id}v = v;`);
   c.emit(junctionCode(c.pool, 'v', 'I', 'G', part, heldAt >= 0 ? 'E' : undefined));
-  if (heldAt >= 0) c.emit(`${c.held(heldAt)} = E;`);
+  if (heldAt >= 0) c.emit(`s[${int(heldAt)}] = E;`);
   c.emit(`const g = G + ${gmin}; const eq = I + ${gmin} * v - g * v;`);
   c.stampMatrix(part.junction, part.junction, '+=', 'g');
   c.stampMatrix(part.junction, part.cathode, '-=', 'g');
@@ -70,7 +68,7 @@ function bjtCurrents(c: DeviceCodeContext, part: BjtPart, heldAt: number): void 
   const invBr = c.pool.ref(part.inverseReverseBeta);
   c.emit(junctionCode(c.pool, 'vbe', 'fI', 'fG', part, heldAt >= 0 ? 'fE' : undefined));
   c.emit(junctionCode(c.pool, 'vbc', 'rI', 'rG', part, heldAt >= 0 ? 'rE' : undefined));
-  if (heldAt >= 0) c.emit(`${c.held(heldAt)} = fE; ${c.held(heldAt + 1)} = fG; ${c.held(heldAt + 2)} = rE; ${c.held(heldAt + 3)} = rG;`);
+  if (heldAt >= 0) c.emit(`s[${int(heldAt)}] = fE; s[${int(heldAt + 1)}] = fG; s[${int(heldAt + 2)}] = rE; s[${int(heldAt + 3)}] = rG;`);
   c.emit(`const early = 1 - vbc * ${invEarly}; const transport = fI - rI;`);
   c.emit(`const ic = transport * early - rI * ${invBr} - ${gmin} * vbc;`);
   c.emit(`const ib = fI * ${invBf} + rI * ${invBr} + ${gmin} * (vbe + vbc);`);
@@ -130,7 +128,7 @@ export function bjtLinearisationError(c: DeviceCodeContext, { part, id }: Juncti
  */
 export function diodeCorrection(c: DeviceCodeContext, { part, id, heldAt }: JunctionDevice<DiodePart>): void {
   c.emit(`{ const x = (${c.voltage('n', part.junction)} - ${c.voltage('n', part.cathode)} - ${id}v) / ${c.pool.ref(part.emissionVolts)};`);
-  c.emit(`const dI = ${c.held(heldAt)} * (${exponentialRemainderCode(c.pool, 'x')});`);
+  c.emit(`const dI = s[${int(heldAt)}] * (${exponentialRemainderCode(c.pool, 'x')});`);
   c.stampRhs(part.junction, '-=', 'dI');
   c.stampRhs(part.cathode, '+=', 'dI');
   c.emit('}');
@@ -147,8 +145,8 @@ export function bjtCorrection(c: DeviceCodeContext, { part, id, heldAt }: Juncti
   const { collector: col, base: b, emitter: e } = part;
   c.emit(`{ const vb = ${c.voltage('n', b)}; const vbc = ${p} * (vb - ${c.voltage('n', col)});`);
   c.emit(`const dbe = ${p} * (vb - ${c.voltage('n', e)}) - ${id}be; const dbc = vbc - ${id}bc; const xf = dbe / ${nvt}; const xr = dbc / ${nvt};`);
-  c.emit(`const dF = ${c.held(heldAt)} * (${exponentialRemainderCode(c.pool, 'xf')}); const dR = ${c.held(heldAt + 2)} * (${exponentialRemainderCode(c.pool, 'xr')});`);
-  c.emit(`const dIc = (dF - dR) * (1 - vbc * ${invEarly}) - (${c.held(heldAt + 1)} * dbe - ${c.held(heldAt + 3)} * dbc) * dbc * ${invEarly} - dR * ${c.pool.ref(part.inverseReverseBeta)};`);
+  c.emit(`const dF = s[${int(heldAt)}] * (${exponentialRemainderCode(c.pool, 'xf')}); const dR = s[${int(heldAt + 2)}] * (${exponentialRemainderCode(c.pool, 'xr')});`);
+  c.emit(`const dIc = (dF - dR) * (1 - vbc * ${invEarly}) - (s[${int(heldAt + 1)}] * dbe - s[${int(heldAt + 3)}] * dbc) * dbc * ${invEarly} - dR * ${c.pool.ref(part.inverseReverseBeta)};`);
   c.emit(`const dIb = dF * ${c.pool.ref(part.inverseForwardBeta)} + dR * ${c.pool.ref(part.inverseReverseBeta)};`);
   c.emit(`const eqC = ${p} * dIc; const eqB = ${p} * dIb;`);
   c.stampRhs(col, '-=', 'eqC');

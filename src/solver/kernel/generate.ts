@@ -157,7 +157,6 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
   const junctions = diodes.length > 0 || bjts.length > 0;
   const early = tol.quadraticAcceptance > 0 && junctions;
   const reuse = tol.reuseAcceptance > 0 && junctions;
-  const heldStart = offset;
   if (reuse) {
     for (const d of diodes) {
       d.heldAt = offset;
@@ -189,7 +188,6 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
       stampedRows.add(row);
       emit(`w${row} ${op} ${expr};`);
     },
-    held: (slot) => `h${int(slot)}`,
   };
   const newtonStamps: string[] = [];
   sink = newtonStamps;
@@ -213,22 +211,17 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
     length: offset + 5 + rhsRows.length + elimination.held.length,
   };
   const heldRhs = new Map(rhsRows.map((row, i) => [row, layout.heldRhs + i]));
-  // What is held for later steps (the junctions' values, the right-hand side, the factors) also
-  // lives in locals: loads from the state array cost a check each, and a held step reads them all.
-  const heldSlots = reuse ? [...range(heldStart, layout.history), ...range(layout.heldRhs, layout.length)] : [];
 
   emit('"use strict";');
-  // The solution and the two points before it (the predictor's) live in locals.
+  // The solution lives in locals; the two points before it stay in the state array (only the predictor reads them).
   emit(declare((k) => `x${k} = s[${k}]`));
-  emit(declare((k) => `p${k} = s[${n + k}], o${k} = s[${2 * n + k}]`));
   emit(declare((k) => `t${k} = 0, n${k} = 0`));
-  for (const { id, at } of capacitors) emit(`let ${id}s0 = s[${at + 1}], ${id}s1 = s[${at}], ${id}d1 = s[${at + 2}];`);
+  for (const { id, at } of capacitors) emit(`let ${id}s1 = s[${at}], ${id}d1 = s[${at + 2}];`);
   for (const { id, at } of diodes) emit(`let ${id}v = s[${at}];`);
   for (const { id, at } of bjts) emit(`let ${id}be = s[${at}], ${id}bc = s[${at + 1}], ${id}ph = s[${at + 2}];`);
   // Small integers held as such (| 0): a counter that arrives as a double would send the engine back to unoptimised code.
   emit(`let history = s[${layout.history}] | 0, predict = s[${layout.predict}] | 0, iterationsTotal = s[${layout.iterations}] | 0;`);
   emit(`let reuse = s[${layout.reuse}] | 0, reusedTotal = s[${layout.reused}] | 0;`);
-  if (heldSlots.length > 0) emit(`let ${heldSlots.map((at) => `${context.held(at)} = s[${int(at)}]`).join(', ')};`);
   emit('let i = from;');
   emit('steps: for (; i < to; i++) {');
   emit('const u = input[i];');
@@ -240,9 +233,9 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
     // Kept when every junction stays as close to the voltage it was linearised at as the quadratic
     // acceptance below asks of a fresh linearisation.
     emit('if (reuse === 1) {');
-    emit(declare((k) => (heldRhs.has(k) ? `w${k} = r${k} + ${context.held(heldRhs.get(k) as number)}` : `w${k} = r${k}`)));
+    emit(declare((k) => (heldRhs.has(k) ? `w${k} = r${k} + s[${int(heldRhs.get(k) as number)}]` : `w${k} = r${k}`)));
     emit('{');
-    for (const line of elimination.solveHeld((index) => context.held(layout.heldFactors + index))) emit(line);
+    for (const line of elimination.solveHeld((index) => `s[${int(layout.heldFactors + index)}]`)) emit(line);
     emit('}');
     emit('let worst = 0;');
     for (const d of diodes) diodeLinearisationError(context, d);
@@ -256,7 +249,7 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
       for (const d of diodes) diodeCorrection(context, d);
       for (const t of bjts) bjtCorrection(context, t);
       const zeroRows = new Set(Array.from({ length: n }, (_, k) => k).filter((k) => !heldRhs.has(k)));
-      for (const line of elimination.solveHeld((index) => context.held(layout.heldFactors + index), zeroRows)) emit(line);
+      for (const line of elimination.solveHeld((index) => `s[${int(layout.heldFactors + index)}]`, zeroRows)) emit(line);
       emit(all((k) => `t${k} += n${k};`));
       emit('}');
     }
@@ -275,7 +268,7 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
   emit('const c0 = two ? 3 : one ? 2 : 1;');
   emit('const c1 = two ? -3 : one ? -1 : 0;');
   emit('const c2 = two ? 1 : 0;');
-  emit(all((k) => `t${k} = c0 * x${k} + c1 * p${k} + c2 * o${k};`));
+  emit(all((k) => `t${k} = c0 * x${k} + c1 * s[${n + k}] + c2 * s[${2 * n + k}];`));
 
   emit(`for (let it = 1; !converged && it <= ${int(tol.maxIterations)}; it++) {`);
   emit('iterations = it; iterationsTotal++;');
@@ -284,12 +277,12 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
   const stampedSlots = [...stamped].sort((a, b) => a - b);
   if (stampedSlots.length > 0) emit(`let ${stampedSlots.map((sl) => `v${sl} = ${literal(constantOf(sl))}`).join(', ')};`);
   for (const line of newtonStamps) emit(line);
-  if (reuse) for (const [row, at] of heldRhs) emit(`${context.held(at)} = w${row} - r${row};`);
+  if (reuse) for (const [row, at] of heldRhs) emit(`s[${int(at)}] = w${row} - r${row};`);
   // Elimination in the sparse matrix's order, fixed parts folded; a pivot that has gone small ends the block.
   emit('{');
   for (const line of elimination.factor) emit(line);
   if (reuse) {
-    elimination.held.forEach((f, index) => emit(`${context.held(layout.heldFactors + index)} = ${f.inverse ? `1 / v${int(f.slot)}` : `v${int(f.slot)}`};`));
+    elimination.held.forEach((f, index) => emit(`s[${int(layout.heldFactors + index)}] = ${f.inverse ? `1 / v${int(f.slot)}` : `v${int(f.slot)}`};`));
   }
   for (const line of elimination.solve) emit(line);
   emit('}');
@@ -318,21 +311,20 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
   emit('}'); // a fresh linearisation
   // Accept: capacitor histories, predictor points, output.
   for (const { part, id, at } of capacitors) {
-    emit(`{ const sq = ${literal(part.farads)} * (${voltage('t', part.a)} - ${voltage('t', part.b)}); const dq = ${literal(2 / h)} * sq + ${id}h; ${id}s0 = ${id}s1; ${id}s1 = sq; ${id}d1 = dq; }`);
+    emit(`{ const sq = ${literal(part.farads)} * (${voltage('t', part.a)} - ${voltage('t', part.b)}); const dq = ${literal(2 / h)} * sq + ${id}h; s[${at + 1}] = ${id}s1; ${id}s1 = sq; ${id}d1 = dq; }`);
   }
-  emit(all((k) => `o${k} = p${k}; p${k} = x${k}; x${k} = t${k};`));
+  emit(all((k) => `s[${2 * n + k}] = s[${n + k}]; s[${n + k}] = x${k}; x${k} = t${k};`));
   emit('history = history < 2 ? history + 1 : 2;');
   emit(`predict = iterations <= ${int(HARD_STEP_ITERATIONS)} ? 1 : 0; if (predict === 0) history = 0;`);
   emit(`{ const at = i * ${int(n)}; ${all((k) => `out[at + ${k}] = x${k};`)} }`);
   emit('}'); // steps
   // Write the state back.
-  emit(all((k) => `s[${k}] = x${k}; s[${n + k}] = p${k}; s[${2 * n + k}] = o${k};`));
-  for (const { id, at } of capacitors) emit(`s[${at}] = ${id}s1; s[${at + 1}] = ${id}s0; s[${at + 2}] = ${id}d1;`);
+  emit(all((k) => `s[${k}] = x${k};`));
+  for (const { id, at } of capacitors) emit(`s[${at}] = ${id}s1; s[${at + 2}] = ${id}d1;`);
   for (const { id, at } of diodes) emit(`s[${at}] = ${id}v;`);
   for (const { id, at } of bjts) emit(`s[${at}] = ${id}be; s[${at + 1}] = ${id}bc; s[${at + 2}] = ${id}ph;`);
   emit(`s[${layout.history}] = history; s[${layout.predict}] = predict; s[${layout.iterations}] = iterationsTotal;`);
   emit(`s[${layout.reuse}] = reuse; s[${layout.reused}] = reusedTotal;`);
-  if (heldSlots.length > 0) emit(heldSlots.map((at) => `s[${int(at)}] = ${context.held(at)};`).join(' '));
   emit('return i;');
   const code = lines.join('\n');
   return { run: compiled(code), layout, code, constants: doubles(pool.values) };
@@ -369,9 +361,4 @@ function compiled(code: string): KernelRun {
     FUNCTIONS.set(code, run);
   }
   return run;
-}
-
-/** from, from + 1, …, to − 1. */
-function range(from: number, to: number): number[] {
-  return Array.from({ length: to - from }, (_, i) => from + i);
 }
