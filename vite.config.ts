@@ -17,6 +17,7 @@ export default defineConfig({
   optimizeDeps: { include: ['lit', 'lit/decorators.js', 'uplot', 'idb-keyval', 'zod', 'fft.js'] },
   test: {
     include: ['test/**/*.test.ts'],
+    globalSetup: ['test/temp-root.ts'],
     testTimeout: 60_000,
     hookTimeout: 120_000,
   },
