@@ -53,7 +53,6 @@ export class CircuitSystem {
   /** The devices' part of the last iteration's right-hand side (their equivalent currents). */
   private readonly heldRhs: Float64Array;
 
-
   constructor(
     readonly circuit: Circuit,
     linearAlgebra: LinearAlgebra = 'sparse',
@@ -110,7 +109,6 @@ export class CircuitSystem {
     this.rhs = new Float64Array(size + 1);
     this.heldRhs = new Float64Array(size + 1);
     this.canHoldLinearisation = this.nonlinearDevices.every((d) => d.stampHeldRemainder !== undefined && d.linearisationError !== undefined);
-
   }
 
   /** An unknown in words, for messages: "node out", "the current through V2". */

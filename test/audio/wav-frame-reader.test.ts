@@ -21,7 +21,6 @@ function readAll(reader: WavFrameReader, rng: SeededRandom, maxChunk: number): F
   return out;
 }
 
-
 describe('WavFrameReader', () => {
   const rng = new SeededRandom(31);
   const noise = (n: number): Float64Array => Float64Array.from({ length: n }, () => rng.uniform() * 1.8 - 0.9);

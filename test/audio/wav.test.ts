@@ -52,7 +52,6 @@ function fmtBody(code: number, channels: number, rate: number, bits: number, sub
 }
 const le = (array: Int16Array | Int32Array | Float32Array | Float64Array): Uint8Array => new Uint8Array(array.buffer);
 
-
 describe('decodeWav', () => {
   it('maps 16-bit codes c to c/32768 (full negative scale is exactly −1)', () => {
     const bytes = riff(chunk('fmt ', fmtBody(1, 1, 8000, 16)), chunk('data', le(new Int16Array([0, 16384, -32768, 32767, -1]))));

@@ -12,7 +12,6 @@ function file(parts: unknown[], extra: Record<string, unknown> = {}): Record<str
   return { format: FORMAT, parts: [...parts, R_TO_GND], ...extra };
 }
 
-
 describe('parseCircuit', () => {
   it('maps every part kind, fills documented defaults and resolves built-in models', () => {
     const circuit = parseCircuit(

@@ -93,6 +93,8 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
   const all = (f: (k: number) => string): string => Array.from({ length: n }, (_, k) => f(k)).join(' ');
   /** One declaration list over the unknowns: `let a0 = …, a1 = …;`. */
   const declare = (f: (k: number) => string): string => `let ${Array.from({ length: n }, (_, k) => f(k)).join(', ')};`;
+  /** The sum of a vector's locals, `a0 + a1 + …` (a NaN or infinity anywhere makes it one). */
+  const sumOf = (prefix: string): string => Array.from({ length: n }, (_, k) => `${prefix}${k}`).join(' + ');
 
   const lines: string[] = [];
   let sink = lines;
@@ -211,6 +213,8 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
     length: offset + 5 + rhsRows.length + elimination.held.length,
   };
   const heldRhs = new Map(rhsRows.map((row, i) => [row, layout.heldRhs + i]));
+  /** Where held factor entry `index` sits in the state array. */
+  const heldFactor = (index: number): string => `s[${int(layout.heldFactors + index)}]`;
 
   emit('"use strict";');
   // The solution lives in locals; the two points before it stay in the state array (only the predictor reads them).
@@ -235,7 +239,7 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
     emit('if (reuse === 1) {');
     emit(declare((k) => (heldRhs.has(k) ? `w${k} = r${k} + s[${int(heldRhs.get(k) as number)}]` : `w${k} = r${k}`)));
     emit('{');
-    for (const line of elimination.solveHeld((index) => `s[${int(layout.heldFactors + index)}]`)) emit(line);
+    for (const line of elimination.solveHeld(heldFactor)) emit(line);
     emit('}');
     emit('let worst = 0;');
     for (const d of diodes) diodeLinearisationError(context, d);
@@ -249,12 +253,12 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
       for (const d of diodes) diodeCorrection(context, d);
       for (const t of bjts) bjtCorrection(context, t);
       const zeroRows = new Set(Array.from({ length: n }, (_, k) => k).filter((k) => !heldRhs.has(k)));
-      for (const line of elimination.solveHeld((index) => `s[${int(layout.heldFactors + index)}]`, zeroRows)) emit(line);
+      for (const line of elimination.solveHeld(heldFactor, zeroRows)) emit(line);
       emit(all((k) => `t${k} += n${k};`));
       emit('}');
     }
     // A non-finite answer is left to a fresh linearisation (which ends the block if it persists).
-    emit(`const sum = ${Array.from({ length: n }, (_, k) => `t${k}`).join(' + ')};`);
+    emit(`const sum = ${sumOf('t')};`);
     emit('if (sum - sum === 0) { converged = true; reusedTotal++; }');
     emit('}');
     emit('}');
@@ -282,13 +286,13 @@ export function generateStepKernel(spec: KernelSpec): { run: KernelRun; layout: 
   emit('{');
   for (const line of elimination.factor) emit(line);
   if (reuse) {
-    elimination.held.forEach((f, index) => emit(`s[${int(layout.heldFactors + index)}] = ${f.inverse ? `1 / v${int(f.slot)}` : `v${int(f.slot)}`};`));
+    elimination.held.forEach((f, index) => emit(`${heldFactor(index)} = ${f.inverse ? `1 / v${int(f.slot)}` : `v${int(f.slot)}`};`));
   }
   for (const line of elimination.solve) emit(line);
   emit('}');
 
   // Convergence as Newton.solve judges it.
-  emit(`{ const sum = ${Array.from({ length: n }, (_, k) => `n${k}`).join(' + ')}; if (sum - sum !== 0) break steps; }`);
+  emit(`{ const sum = ${sumOf('n')}; if (sum - sum !== 0) break steps; }`);
   if (early) {
     // Quadratic acceptance first (it decides most steps and is the cheaper test).
     emit('let worst = 0;');

@@ -14,7 +14,7 @@ import type { KernelPart, KernelState } from './plan.ts';
  */
 export class StepKernel {
   readonly state: number[];
-  /** Calls of `run` so far (the simulator makes the first one short). */
+  /** Calls of `run` so far (the simulator makes the first ones one step long). */
   calls = 0;
   /** The parts that carry state, and where it sits in the state array. */
   private readonly stateful: { state: KernelState; at: number }[] = [];
