@@ -4,7 +4,7 @@
  * each circuit, Newton iterations per step, peak memory, the accuracy against a
  * reference run (8× smaller steps, tight Newton tolerance) and the speed ratio
  * to the straightforward path (dense elimination with partial pivoting every
- * iteration), the figure for the whole machine with the transmitter and the
+ * iteration) and to the same kernels run as JavaScript, the figure for the whole machine with the transmitter and the
  * receiver on two threads, and the time and peak memory of a streamed one-minute
  * render (`npm run bench:long` for 10 and 60 minutes). The last line is
  * `realtime-factor: N` (one core).
@@ -61,7 +61,7 @@ console.log(
 );
 console.log(
   `Newton iterations per step: transmitter ${(solver.transmitterNewtonIterations / solver.transmitterSteps).toFixed(3)}, receiver ${(solver.receiverNewtonIterations / solver.receiverSteps).toFixed(3)}; ` +
-    `${((100 * solver.generatedSteps) / (solver.transmitterSteps + solver.receiverSteps)).toFixed(2)} % of steps in the generated kernels; ` +
+    `${((100 * solver.generatedSteps) / (solver.transmitterSteps + solver.receiverSteps)).toFixed(2)} % of steps in the generated kernels (transmitter ${solver.transmitterKernel ?? 'none'}, receiver ${solver.receiverKernel ?? 'none'}); ` +
     `steps on a held linearisation: transmitter ${((100 * solver.transmitterReusedSteps) / solver.transmitterSteps).toFixed(1)} %, receiver ${((100 * solver.receiverReusedSteps) / solver.receiverSteps).toFixed(1)} %`,
 );
 
@@ -73,6 +73,9 @@ console.log(
   `accuracy (${excerpt} s excerpt): far end vs reference (8× smaller steps: ${referenceSubsteps.transmitter} and ${referenceSubsteps.receiver} per internal sample, tight Newton): ` +
     `${relativeRmsError(fast.result.farEndVolts, reference.result.farEndVolts).toExponential(3)} relative rms`,
 );
+timed(excerpt, { solver: { kernelBackend: 'js' } }); // warms the JavaScript kernels up, as the renders above did the WebAssembly ones
+const javascript = timed(excerpt, { solver: { kernelBackend: 'js' } });
+console.log(`the same kernels run as JavaScript instead of WebAssembly (both warm): ${javascript.wall.toFixed(2)} s vs ${fast.wall.toFixed(2)} s on ${excerpt} s`);
 const straightforward = timed(excerpt, { solver: { linearAlgebra: 'dense' } });
 console.log(`straightforward path (dense elimination each iteration): ${straightforward.wall.toFixed(2)} s vs fast ${fast.wall.toFixed(2)} s on ${excerpt} s: ratio ${(straightforward.wall / fast.wall).toFixed(2)}×`);
 console.log(`peak resident memory: ${(process.resourceUsage().maxRSS / 1024).toFixed(0)} MB (this process, all runs above)`);

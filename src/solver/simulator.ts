@@ -5,7 +5,7 @@ import { DEFAULT_TOLERANCES, HARD_STEP_ITERATIONS, Newton, type NewtonTolerances
 import { solveOperatingPoint, type OperatingPointMethod } from './operating-point.ts';
 import { CircuitSystem, type LinearAlgebra } from './system.ts';
 import type { DriveSignal } from '../devices/wave.ts';
-import { StepKernel } from './kernel/step-kernel.ts';
+import { StepKernel, type KernelBackend } from './kernel/step-kernel.ts';
 import { SparseLu } from './sparse-lu.ts';
 
 export interface SimulatorOptions {
@@ -19,6 +19,8 @@ export interface SimulatorOptions {
    * on the general loop.
    */
   generatedSteps?: boolean;
+  /** What the generated kernel runs on (default 'wasm', where the engine has WebAssembly). */
+  kernelBackend?: KernelBackend;
 }
 
 /** How many times a fixed step may be halved to get through a hard spot. */
@@ -65,6 +67,7 @@ export class Simulator {
   /** `steps` when the kernel last handed back: its held linearisation is stale once the general loop has stepped. */
   private stepsAtKernelExit = -1;
   private readonly allowKernel: boolean;
+  private readonly kernelBackend: KernelBackend;
   /** The generated kernel last used by `runBlock` (null: none yet, or the circuit has none). */
   kernel: StepKernel | null = null;
   /** The (step, drive, ordering) for which generation was refused, so it is not retried every step. */
@@ -75,6 +78,7 @@ export class Simulator {
     this.newton = new Newton(this.system, options.tolerances ?? DEFAULT_TOLERANCES);
     this.method = options.method ?? 'tr';
     this.allowKernel = (options.generatedSteps ?? true) && (options.linearAlgebra ?? 'sparse') === 'sparse';
+    this.kernelBackend = options.kernelBackend ?? 'wasm';
     this.x = new Float64Array(this.system.size + 1);
     this.previous = new Float64Array(this.system.size + 1);
     this.older = new Float64Array(this.system.size + 1);
@@ -271,7 +275,7 @@ export class Simulator {
     if (k && k.stepSeconds === stepSeconds && k.input === drive && k.ordering === ordering) return k;
     const r = this.refused;
     if (r && r.stepSeconds === stepSeconds && r.input === drive && r.ordering === ordering) return null;
-    this.kernel = StepKernel.compile(this.system, drive, stepSeconds, this.newton.tolerances);
+    this.kernel = StepKernel.compile(this.system, drive, stepSeconds, this.newton.tolerances, this.kernelBackend);
     if (!this.kernel) this.refused = { stepSeconds, input: drive, ordering };
     return this.kernel;
   }

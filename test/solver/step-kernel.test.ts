@@ -124,6 +124,22 @@ describe('generated step kernel', () => {
     });
   }
 
+  for (const c of CASES) {
+    it(`${c.name}: the WebAssembly translation takes the JavaScript kernel's steps to the bit (same solutions, iterations, held steps, hand-overs)`, () => {
+      const steps = 4000;
+      const wasm = run(c, steps, { tolerances: AUDIO_TOLERANCES, kernelBackend: 'wasm' });
+      const js = run(c, steps, { tolerances: AUDIO_TOLERANCES, kernelBackend: 'js' });
+      expect(wasm.sim.kernel?.backend).toBe('wasm');
+      expect(js.sim.kernel?.backend).toBe('js');
+      expect(wasm.sim.generatedSteps).toBe(js.sim.generatedSteps);
+      expect(wasm.sim.reusedSteps).toBe(js.sim.reusedSteps);
+      expect(wasm.sim.newton.totalIterations).toBe(js.sim.newton.totalIterations);
+      let differing = 0;
+      for (let i = 0; i < js.solutions.length; i++) if (!Object.is(wasm.solutions[i], js.solutions[i])) differing++;
+      expect(differing).toBe(0);
+    });
+  }
+
   it('hands the hard spot over to the general loop and takes the steps after it again', () => {
     const c = CASES[4];
     const { sim } = run(c, 4000, {});

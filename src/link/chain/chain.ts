@@ -1,5 +1,6 @@
 import { InputError } from '../../errors.ts';
 import type { Scenario } from '../../scenario/types.ts';
+import type { KernelBackend } from '../../solver/kernel/step-kernel.ts';
 import { AUDIO_TOLERANCES, type NewtonTolerances } from '../../solver/newton.ts';
 import type { LinearAlgebra } from '../../solver/system.ts';
 import { ReceiverStage, type ReceiverSummary, type ReceiverTiming } from './receiver-stage.ts';
@@ -50,6 +51,8 @@ export interface RenderOptions {
     substeps?: number | { transmitter: number; receiver: number };
     /** False: every step on the general loop, none in the generated kernels (for comparisons). */
     generatedSteps?: boolean;
+    /** What the generated kernels run on (default 'wasm'; 'js' for comparisons). */
+    kernelBackend?: KernelBackend;
   };
 }
 
@@ -102,6 +105,7 @@ export function stageSettings(scenario: Scenario, options: RenderOptions): Stage
       linearAlgebra: options.solver?.linearAlgebra,
       tolerances: options.solver?.tolerances ?? AUDIO_TOLERANCES,
       generatedSteps: options.solver?.generatedSteps,
+      kernelBackend: options.solver?.kernelBackend,
     },
     substeps: substepsOf(options.solver?.substeps),
     chunkSamples: options.chunkSamples ?? 1024,
@@ -199,6 +203,8 @@ export function assembleResult(
       generatedSteps: tx.generatedSteps + rx.generatedSteps,
       transmitterReusedSteps: tx.reusedSteps,
       receiverReusedSteps: rx.reusedSteps,
+      transmitterKernel: tx.kernel,
+      receiverKernel: rx.kernel,
       wallSeconds: (Date.now() - startedMs) / 1000,
       transmitterSeconds: tx.seconds,
       receiverSeconds: rx.seconds,

@@ -1,4 +1,5 @@
 import type { Scenario } from '../../scenario/types.ts';
+import type { KernelBackend } from '../../solver/kernel/step-kernel.ts';
 import { pascalsToDbSpl } from '../acoustics/sound-level.ts';
 import type { Episodes } from './intervals.ts';
 import type { CalibratedSource } from './source.ts';
@@ -51,6 +52,9 @@ export interface RenderReport {
     /** Of those, steps solved on the previous step's linearisation and factors, circuit by circuit. */
     transmitterReusedSteps: number;
     receiverReusedSteps: number;
+    /** What each circuit's generated kernel ran on: 'wasm', 'js', or null (none). */
+    transmitterKernel: KernelBackend | null;
+    receiverKernel: KernelBackend | null;
     wallSeconds: number;
     /** Time spent stepping each circuit (its statistics and taps included), seconds. */
     transmitterSeconds: number;

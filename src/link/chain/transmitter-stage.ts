@@ -4,6 +4,7 @@ import { VoltageSource } from '../../devices/sources.ts';
 import { InputError } from '../../errors.ts';
 import type { PhototransistorModel } from '../../circuit/types.ts';
 import type { Scenario } from '../../scenario/types.ts';
+import type { KernelBackend } from '../../solver/kernel/step-kernel.ts';
 import { Simulator, type SimulatorOptions } from '../../solver/simulator.ts';
 import { LightPath } from '../light-path/light-path.ts';
 import { Microphone } from '../microphone.ts';
@@ -37,6 +38,8 @@ export interface StageFigures {
   subdividedSteps: number;
   generatedSteps: number;
   reusedSteps: number;
+  /** What the generated kernel ran on (null: no kernel, every step on the general loop). */
+  kernel: KernelBackend | null;
   seconds: number;
   taps: TapRecord[];
 }
@@ -50,6 +53,7 @@ export function stageFigures(simulator: Simulator, watches: readonly TransistorW
     subdividedSteps: simulator.subdividedSteps,
     generatedSteps: simulator.generatedSteps,
     reusedSteps: simulator.reusedSteps,
+    kernel: simulator.kernel?.backend ?? null,
     seconds: milliseconds / 1000,
     taps: taps.map((t) => t.finish()),
   };

@@ -14,7 +14,7 @@ import {
 } from './device-code.ts';
 import { eliminationCode } from './elimination-code.ts';
 import { ConstantPool, int } from './literals.ts';
-import type { BjtPart, CapacitorPart, DiodePart, KernelPart } from './plan.ts';
+import type { BjtPart, CapacitorPart, DiodePart, KernelArray, KernelPart } from './plan.ts';
 
 /** Everything the generator needs, as numbers and the parts' descriptions. */
 export interface KernelSpec {
@@ -62,7 +62,7 @@ export interface KernelLayout {
  * Runs steps `from` to `to` of the block; returns the index of the first step it could not
  * take (`to` when all went through). Accepted solutions go to `out`, `size` values per step.
  */
-export type KernelRun = (state: number[], constants: readonly number[], input: Float64Array, from: number, to: number, out: Float64Array) => number;
+export type KernelRun = (state: KernelArray, constants: readonly number[], input: Float64Array, from: number, to: number, out: Float64Array) => number;
 
 /** Thrown while generating when a part cannot be expressed (the caller keeps the general loop). */
 export class KernelUnsupported extends Error {}

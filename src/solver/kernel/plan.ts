@@ -10,9 +10,12 @@ export type KernelPart = CapacitorPart | VoltageSourcePart | DiodePart | BjtPart
 
 /** State a part carries between steps, copied in and out around a kernel run (without allocating). */
 export interface KernelState {
-  read(into: number[], at: number): void;
-  write(from: readonly number[], at: number): void;
+  read(into: KernelArray, at: number): void;
+  write(from: Readonly<KernelArray>, at: number): void;
 }
+
+/** A kernel's state array: plain doubles for the JavaScript kernel, a view of its memory for the WebAssembly one. */
+export type KernelArray = number[] | Float64Array;
 
 /** A linear capacitor; its state is [charge s₁, charge s₂, current d₁]. */
 export interface CapacitorPart {
