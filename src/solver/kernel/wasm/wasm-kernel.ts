@@ -29,18 +29,21 @@ export function wasmKernel(code: string, stateLength: number, constants: readonl
   const layout = kernelMemory(stateLength, constants.length, size, WASM_BLOCK_STEPS);
   const key = `${stateLength} ${constants.length} ${size}\n${code}`;
   let module = MODULES.get(key);
+  let instance: WebAssembly.Instance;
+  let memory: WebAssembly.Memory;
   try {
     if (!module) {
       module = new WebAssembly.Module(compileKernelModule(code, layout) as Uint8Array<ArrayBuffer>);
       if (MODULES.size >= MAX_MODULES) MODULES.delete(MODULES.keys().next().value as string);
       MODULES.set(key, module);
     }
+    // A memory can be refused too (the engine reserves address space for each).
+    memory = new WebAssembly.Memory({ initial: Math.ceil(layout.bytes / 65536) });
+    instance = new WebAssembly.Instance(module, { m: { memory, exp: Math.exp, log: Math.log } });
   } catch (error) {
-    if (error instanceof SubsetError || error instanceof WebAssembly.CompileError || error instanceof RangeError) return null;
+    if (error instanceof SubsetError || error instanceof WebAssembly.CompileError || error instanceof WebAssembly.LinkError || error instanceof RangeError) return null;
     throw error;
   }
-  const memory = new WebAssembly.Memory({ initial: Math.ceil(layout.bytes / 65536) });
-  const instance = new WebAssembly.Instance(module, { m: { memory, exp: Math.exp, log: Math.log } });
   const step = instance.exports.run as (from: number, to: number) => number;
   const buffer = memory.buffer;
   const state = new Float64Array(buffer, layout.state, stateLength);
