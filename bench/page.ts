@@ -33,7 +33,7 @@ try {
       await page.locator('gt-render-bar [data-excerpt]').selectOption(excerpt);
       await renderedAfter(before);
     }
-    console.log(`whole clip: ${await page.locator('[data-last-run]').innerText()}`);
+    console.log(`whole clip: ${await page.locator('[data-last-run]').innerText()} (${(await page.locator('gt-chain-strip [data-block="solver"] .sub').innerText()).trim()})`);
   }
 } finally {
   await bench.close();

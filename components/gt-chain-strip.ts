@@ -1,6 +1,7 @@
 import { LitElement, css, html, nothing, svg } from 'lit';
 import { customElement, property } from 'lit/decorators.js';
 import type { RenderReport } from '../src/link/chain/report.ts';
+import type { KernelBackend } from '../src/solver/kernel/step-kernel.ts';
 import { formatFigure } from './support/value-text.ts';
 import type { BiasTables } from '../src/worker/messages.ts';
 import type { BlockId } from './support/field-catalogue.ts';
@@ -180,11 +181,17 @@ export class GtChainStrip extends LitElement {
         id: 'solver',
         name: 'Solver',
         key: r ? `${formatFigure(r.internalRateHertz, 'Hz')}` : '—',
-        sub: r ? `solver alone ${(r.durationSeconds / Math.max(1e-9, r.solver.wallSeconds)).toFixed(2)}× real time` : '',
+        sub: r ? `solver alone ${(r.durationSeconds / Math.max(1e-9, r.solver.wallSeconds)).toFixed(2)}× real time · ${kernelsText(r.solver.transmitterKernel, r.solver.receiverKernel)}` : '',
         badges: r && r.solver.subdividedSteps > 0 ? [{ text: `${r.solver.subdividedSteps} steps subdivided`, tone: 'warn' }] : [],
       },
     ];
   }
+}
+
+/** What the circuits' steps ran on, in a few words. */
+function kernelsText(transmitter: KernelBackend | null, receiver: KernelBackend | null): string {
+  const name = (k: KernelBackend | null): string => (k === 'wasm' ? 'WebAssembly' : k === 'js' ? 'JavaScript' : 'general loop');
+  return transmitter === receiver ? `${name(transmitter)} kernels` : `transmitter ${name(transmitter)}, receiver ${name(receiver)}`;
 }
 
 declare global {

@@ -93,6 +93,8 @@ describe('the workbench page in Chromium', () => {
     await expect.poll(() => page.locator('gt-chain-strip [data-block="voice"]').innerText()).toMatch(/dB SPL/);
     await expect.poll(() => page.locator('gt-chain-strip [data-block="transmitter"]').innerText()).toMatch(/mA bias/);
     await expect.poll(() => page.locator('gt-chain-strip [data-block="light"]').innerText()).toMatch(/W\s+at the detector/);
+    // The render worker runs the kernels as WebAssembly (a refused module would fall back to JavaScript).
+    await expect.poll(() => page.locator('gt-chain-strip [data-block="solver"]').innerText()).toMatch(/WebAssembly kernels/);
     await shot('1-demo-a');
     console.log(`first render of demo (a), page load to drawn: ${seconds.toFixed(1)} s; ${lastRun}`);
     // Shorter renders from here on keep the test quick.
