@@ -3,14 +3,13 @@
  * as needed before STOI or segmental SNR.
  *
  * Delay: the lag l in [−maxLag, +maxLag] maximising |r(l)|, r(l) = Σ_n c[n]·d[n + l],
- * computed for all lags at once by FFT (r = IFFT(conj(C)·D), zero-padded so
- * nothing wraps). The magnitude is used because an inverting amplifier stage flips
+ * computed for all lags in the range at once by FFT (cross-correlation.ts). The magnitude is used because an inverting amplifier stage flips
  * the sign; the gain below then comes out negative. Whole samples only.
  * Level: the least-squares gain g = Σ c·d′ / Σ d′² for the shifted signal d′,
  * which minimises Σ (c − g·d′)².
  */
 import { InputError } from '../errors.ts';
-import { fftPlan, nextPowerOfTwo, realFft } from './fft.ts';
+import { crossCorrelation } from './cross-correlation.ts';
 import { checkRange, checkRate, checkSamples } from './validate.ts';
 
 export interface AlignOptions {
@@ -37,30 +36,13 @@ export function align(clean: ArrayLike<number>, degraded: ArrayLike<number>, rat
   const maxLagSeconds = options.maxLagSeconds ?? 0.5;
   checkRange('maxLagSeconds', maxLagSeconds, 0, Infinity, 'a duration of 0 s or more');
   const maxLag = Math.round(maxLagSeconds * rateHertz);
-  const size = Math.max(2, nextPowerOfTwo(clean.length + degraded.length - 1));
-  const plan = fftPlan(size);
-  const spectrumClean = realFft(clean, size);
-  const spectrumDegraded = realFft(degraded, size);
-  plan.completeSpectrum(spectrumClean);
-  plan.completeSpectrum(spectrumDegraded);
-  for (let k = 0; k < size; k++) {
-    // conj(C)·D
-    const cr = spectrumClean[2 * k];
-    const ci = -spectrumClean[2 * k + 1];
-    const dr = spectrumDegraded[2 * k];
-    const di = spectrumDegraded[2 * k + 1];
-    spectrumClean[2 * k] = cr * dr - ci * di;
-    spectrumClean[2 * k + 1] = cr * di + ci * dr;
-  }
-  const correlation = new Float64Array(2 * size);
-  plan.inverseTransform(correlation, spectrumClean);
-  // r(l) sits at index l for l ≥ 0 and at size + l for l < 0.
-  let bestLag = 0;
-  let best = -1;
   const highest = Math.min(maxLag, degraded.length - 1);
   const lowest = -Math.min(maxLag, clean.length - 1);
+  const correlation = crossCorrelation(clean, degraded, lowest, highest);
+  let bestLag = 0;
+  let best = -1;
   for (let lag = lowest; lag <= highest; lag++) {
-    const value = Math.abs(correlation[2 * (lag >= 0 ? lag : size + lag)]);
+    const value = Math.abs(correlation[lag - lowest]);
     // Ties (e.g. silence) go to the smallest delay.
     if (value > best || (value === best && Math.abs(lag) < Math.abs(bestLag))) {
       best = value;
