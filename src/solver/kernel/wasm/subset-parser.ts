@@ -39,6 +39,9 @@ interface Token {
   text: string;
 }
 
+const NAME = /[A-Za-z_$][\w$]*/y;
+const NUMBER = /\d+\.?\d*(e[+-]?\d+)?/iy;
+
 function tokenize(code: string): Token[] {
   const tokens: Token[] = [];
   let i = 0;
@@ -48,13 +51,15 @@ function tokenize(code: string): Token[] {
       i++;
       continue;
     }
-    const name = /^[A-Za-z_$][\w$]*/.exec(code.slice(i, i + 64));
+    NAME.lastIndex = i;
+    const name = NAME.exec(code);
     if (name) {
       tokens.push({ kind: 'name', text: name[0] });
       i += name[0].length;
       continue;
     }
-    const number = /^(\d+\.?\d*(e[+-]?\d+)?)/i.exec(code.slice(i, i + 64));
+    NUMBER.lastIndex = i;
+    const number = NUMBER.exec(code);
     if (number) {
       tokens.push({ kind: 'number', text: number[0] });
       i += number[0].length;
