@@ -140,6 +140,23 @@ describe('generated step kernel', () => {
     });
   }
 
+  it('runs the JavaScript kernel where the engine has no WebAssembly, with the same solutions', () => {
+    const c = CASES[2];
+    const wasm = run(c, 2000, { tolerances: AUDIO_TOLERANCES });
+    const saved = globalThis.WebAssembly;
+    let js: ReturnType<typeof run>;
+    try {
+      (globalThis as { WebAssembly?: unknown }).WebAssembly = undefined;
+      js = run(c, 2000, { tolerances: AUDIO_TOLERANCES });
+    } finally {
+      globalThis.WebAssembly = saved;
+    }
+    expect(wasm.sim.kernel?.backend).toBe('wasm');
+    expect(js.sim.kernel?.backend).toBe('js');
+    expect(js.sim.generatedSteps).toBe(wasm.sim.generatedSteps);
+    expect(Array.from(js.solutions).every((v, i) => Object.is(v, wasm.solutions[i]))).toBe(true);
+  });
+
   it('hands the hard spot over to the general loop and takes the steps after it again', () => {
     const c = CASES[4];
     const { sim } = run(c, 4000, {});
