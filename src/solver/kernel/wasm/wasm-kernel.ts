@@ -21,8 +21,9 @@ const MAX_MODULES = 32;
 /**
  * The kernel `code` (from `generateStepKernel`) as a WebAssembly instance with its own memory,
  * or null where it cannot be: no WebAssembly in this engine, a construct the translator does
- * not take, or a main browser thread that refuses to compile a module this size synchronously.
- * The caller keeps the JavaScript kernel then; both give the same answers.
+ * not take, a main browser thread that refuses to compile a module this size synchronously, or
+ * an engine that refuses the memory or the instance. The caller keeps the JavaScript kernel
+ * then; both give the same answers.
  */
 export function wasmKernel(code: string, stateLength: number, constants: readonly number[], size: number): WasmKernel | null {
   if (typeof WebAssembly !== 'object') return null;
