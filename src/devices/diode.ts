@@ -148,9 +148,7 @@ export class Diode implements TwoTerminal {
    * at the one that starts at x[offset] (a row of a block of solutions, read in place).
    */
   junctionCurrent(x: Float64Array, offset = 0): number {
-    const j = this.junction;
-    const c = this.cathode;
-    const volts = (j < 0 ? 0 : x[offset + j]) - (c < 0 ? 0 : x[offset + c]);
+    const volts = voltageAt(x, this.junction, offset) - voltageAt(x, this.cathode, offset);
     evaluateJunction(volts, this.saturationAmperes, this.emissionVolts, this.point);
     return this.point.amperes;
   }

@@ -59,7 +59,7 @@ export class Resistor implements TwoTerminal {
   }
 }
 
-/** Node voltage from the solution vector (ground, index -1, is 0 V). */
-export function voltageAt(x: Float64Array, index: number): number {
-  return index < 0 ? 0 : x[index];
+/** Node voltage from the solution vector, or from the row of a block of solutions that starts at `offset` (ground, index -1, is 0 V). */
+export function voltageAt(x: Float64Array, index: number, offset = 0): number {
+  return index < 0 ? 0 : x[offset + index];
 }

@@ -134,8 +134,7 @@ export class Decimator {
       n = this.stages[s].process(from, n, to);
       from = to;
     }
-    const written = n;
     this.pending = (this.pending + input.length) % this.factor;
-    return written;
+    return n;
   }
 }

@@ -233,4 +233,3 @@ describe('the rung-following pass', () => {
     }
   });
 });
-

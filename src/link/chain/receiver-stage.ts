@@ -1,4 +1,5 @@
 import { Bjt } from '../../devices/bjt.ts';
+import { voltageAt } from '../../devices/resistor.ts';
 import type { DriveSignal } from '../../devices/wave.ts';
 import { InputError } from '../../errors.ts';
 import type { Scenario } from '../../scenario/types.ts';
@@ -133,7 +134,7 @@ export class ReceiverStage {
       // The sample's solution is read in place; copied out only for probes that want it whole.
       const row = (i * substeps + substeps - 1) * size;
       if (probed) for (let k = 0; k < size; k++) x[k] = solutions[row + k];
-      speaker[i] = (plus < 0 ? 0 : solutions[row + plus]) - (minus < 0 ? 0 : solutions[row + minus]);
+      speaker[i] = voltageAt(solutions, plus, row) - voltageAt(solutions, minus, row);
       updateWatches(watches, index, solutions, row);
       for (const tap of circuitTaps) tap.push((tap.source as { probe: (x: Float64Array) => number }).probe(x));
     }

@@ -1,4 +1,5 @@
 import { Bjt } from '../../devices/bjt.ts';
+import { voltageAt } from '../../devices/resistor.ts';
 import type { Simulator } from '../../solver/simulator.ts';
 import { IntervalTracker, toEpisodes, type Episodes } from './intervals.ts';
 
@@ -51,9 +52,9 @@ export function watchTransistors(
 export function updateWatches(watches: readonly TransistorWatch[], index: number, values: Float64Array, offset: number): void {
   for (let k = 0; k < watches.length; k++) {
     const w = watches[k];
-    const vb = w.base < 0 ? 0 : values[offset + w.base];
-    const ve = w.emitter < 0 ? 0 : values[offset + w.emitter];
-    const vc = w.collector < 0 ? 0 : values[offset + w.collector];
+    const vb = voltageAt(values, w.base, offset);
+    const ve = voltageAt(values, w.emitter, offset);
+    const vc = voltageAt(values, w.collector, offset);
     const emitterOn = w.polarity * (vb - ve) > w.conductingVolts;
     const collectorOn = w.polarity * (vb - vc) > w.conductingVolts;
     w.saturation.update(index, emitterOn && collectorOn);

@@ -71,7 +71,8 @@ export class KernelUnsupported extends Error {}
  * Generates one circuit's whole trapezoidal time step as straight-line JavaScript:
  * right-hand side from the sources and capacitor histories, predictor, Newton with
  * junction limiting, LU on locals in the sparse matrix's fixed elimination order (fixed
- * parts folded), acceptance, capacitor updates. State lives in locals for the whole block.
+ * parts folded), acceptance, capacitor updates. The solution lives in locals for the whole
+ * block; what later steps need (earlier points, held factors) stays in the state array.
  * It does what `Simulator.step` does on the same circuit (same equations, same acceptance
  * rules, held linearisations included) minus the general machinery. (A chord step that
  * reuses the last factors but evaluates every junction afresh was tried and measured: +10 %

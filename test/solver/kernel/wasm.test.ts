@@ -2,7 +2,7 @@ import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { ByteWriter } from '../../../src/solver/kernel/wasm/encoder.ts';
 import { SubsetError, parseSubset } from '../../../src/solver/kernel/wasm/subset-parser.ts';
-import { wasmKernel } from '../../../src/solver/kernel/wasm/wasm-kernel.ts';
+import { WASM_BLOCK_STEPS, wasmKernel } from '../../../src/solver/kernel/wasm/wasm-kernel.ts';
 
 /*
  * The kernels' translation to WebAssembly against the engine's own JavaScript: the same code
@@ -125,13 +125,15 @@ return i;`;
 
   it('stops where the code stops, and takes more steps than one call holds in several calls', () => {
     const code = `"use strict";\nlet i = from;\nsteps: for (; i < to; i++) {\nconst u = input[i];\nif (u !== u) break steps;\nout[i] = u * 2;\n}\nreturn i;`;
-    const input = Float64Array.from({ length: 5000 }, (_, i) => i);
-    expect(both(code, [0], [], input, 1).wasmReturn).toBe(5000);
-    input[4321] = NaN;
+    const length = 2 * WASM_BLOCK_STEPS + 904;
+    const stop = 2 * WASM_BLOCK_STEPS + 225; // in the third call
+    const input = Float64Array.from({ length }, (_, i) => i);
+    expect(both(code, [0], [], input, 1).wasmReturn).toBe(length);
+    input[stop] = NaN;
     const r = both(code, [0], [], input, 1);
-    expect(r.jsReturn).toBe(4321);
-    expect(r.wasmReturn).toBe(4321);
-    expect(sameBits(r.wasmOut.subarray(0, 4321), r.jsOut.subarray(0, 4321))).toBe(true);
+    expect(r.jsReturn).toBe(stop);
+    expect(r.wasmReturn).toBe(stop);
+    expect(sameBits(r.wasmOut.subarray(0, stop), r.jsOut.subarray(0, stop))).toBe(true);
   });
 
   it('refuses what it does not translate, so the caller keeps the JavaScript kernel', () => {

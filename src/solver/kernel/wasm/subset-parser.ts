@@ -42,6 +42,13 @@ interface Token {
 const NAME = /[A-Za-z_$][\w$]*/y;
 const NUMBER = /\d+\.?\d*(e[+-]?\d+)?/iy;
 
+/** The token a sticky expression matches at position i, or null. */
+function readAt(pattern: RegExp, kind: 'name' | 'number', code: string, i: number): Token | null {
+  pattern.lastIndex = i;
+  const match = pattern.exec(code);
+  return match ? { kind, text: match[0] } : null;
+}
+
 function tokenize(code: string): Token[] {
   const tokens: Token[] = [];
   let i = 0;
@@ -51,18 +58,10 @@ function tokenize(code: string): Token[] {
       i++;
       continue;
     }
-    NAME.lastIndex = i;
-    const name = NAME.exec(code);
-    if (name) {
-      tokens.push({ kind: 'name', text: name[0] });
-      i += name[0].length;
-      continue;
-    }
-    NUMBER.lastIndex = i;
-    const number = NUMBER.exec(code);
-    if (number) {
-      tokens.push({ kind: 'number', text: number[0] });
-      i += number[0].length;
+    const word = readAt(NAME, 'name', code, i) ?? readAt(NUMBER, 'number', code, i);
+    if (word) {
+      tokens.push(word);
+      i += word.text.length;
       continue;
     }
     if (c === '"') {
