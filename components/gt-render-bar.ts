@@ -7,8 +7,8 @@ const EXCERPTS: (number | null)[] = [0.5, 1, 3, 10, 30, null];
 
 /**
  * Render status: progress with a cancel button while the worker runs, the
- * excerpt length (renders are slower than real time, so the first seconds
- * by default), and what the last render cost.
+ * excerpt length (the first 3 s by default, so that an edit is heard and seen
+ * within about a second), and what the last render cost.
  *
  * @fires render-now
  * @fires render-cancel

@@ -1,6 +1,6 @@
 /**
- * Renders are slower than real time, so the page renders the first seconds
- * of the source by default. The excerpt must be the same sound at the same
+ * So that an edit is heard within about a second, the page renders the first
+ * seconds of the source by default. The excerpt must be the same sound at the same
  * level as in the full run: the whole source is calibrated first (its level
  * is a property of all of it), then its first seconds are handed to the
  * chain as a recording whose stated level reproduces that calibration
