@@ -70,12 +70,8 @@ export function stoi(clean: ArrayLike<number>, degraded: ArrayLike<number>, rate
   checkSamples('clean', clean);
   checkSamples('degraded', degraded);
   checkSameLength('clean', clean, 'degraded', degraded);
-  let x: Float64Array = Float64Array.from(clean);
-  let y: Float64Array = Float64Array.from(degraded);
-  if (rateHertz !== P.rateHertz) {
-    x = resample(x, rateHertz, P.rateHertz);
-    y = resample(y, rateHertz, P.rateHertz);
-  }
+  let x = atStoiRate(clean, rateHertz, true);
+  let y = atStoiRate(degraded, rateHertz, false);
   [x, y] = removeSilentFrames(x, y);
   const clean15 = bandEnvelopes(x);
   const degraded15 = bandEnvelopes(y);
@@ -121,14 +117,35 @@ export function stoiAligned(clean: ArrayLike<number>, degraded: ArrayLike<number
   checkRate('rateHertz', rateHertz);
   checkSamples('clean', clean);
   checkSamples('degraded', degraded);
-  let x: Float64Array = Float64Array.from(clean);
-  let y: Float64Array = Float64Array.from(degraded);
-  if (rateHertz !== P.rateHertz) {
-    x = resample(x, rateHertz, P.rateHertz);
-    y = resample(y, rateHertz, P.rateHertz);
-  }
+  const x = atStoiRate(clean, rateHertz, true);
+  const y = atStoiRate(degraded, rateHertz, false);
   const { aligned } = align(x, y, P.rateHertz, options);
   return stoi(x, aligned, P.rateHertz);
+}
+
+/**
+ * The last clean signal brought to 10 kHz, kept for the next call: the page and the sweeps measure
+ * one clean source against render after render, and resampling it is about a third of STOI's
+ * time. Only for signals up to MAX_KEPT_SAMPLES long, so that a long one is not held on to.
+ */
+let lastClean: { rateHertz: number; samples: Float64Array; resampled: Float64Array } | null = null;
+const MAX_KEPT_SAMPLES = 1 << 22;
+
+/** A fresh copy of `signal` at STOI's rate (10 kHz); `clean` marks the reference, which is kept. */
+function atStoiRate(signal: ArrayLike<number>, rateHertz: number, clean: boolean): Float64Array {
+  const copy = Float64Array.from(signal);
+  if (rateHertz === P.rateHertz) return copy;
+  const last = lastClean;
+  if (clean && last && last.rateHertz === rateHertz && sameSamples(last.samples, copy)) return last.resampled.slice();
+  const resampled = resample(copy, rateHertz, P.rateHertz);
+  if (clean && copy.length <= MAX_KEPT_SAMPLES) lastClean = { rateHertz, samples: copy, resampled: resampled.slice() };
+  return resampled;
+}
+
+function sameSamples(a: Float64Array, b: Float64Array): boolean {
+  if (a.length !== b.length) return false;
+  for (let i = 0; i < a.length; i++) if (a[i] !== b[i]) return false;
+  return true;
 }
 
 /** Hann window of the reference code: 0.5 − 0.5·cos(2πn/(N+1)), n = 1..N (no zero end points). */

@@ -42,6 +42,16 @@ const FACTS: Record<WindowKind, WindowFacts> = {
   },
 };
 
+/**
+ * The last few windows made: a Welch average asks for the same window once per segment, and its
+ * cosines cost more than the rest of the segment's work but the FFT. Copies go out, so no caller
+ * can change what the next one gets.
+ */
+const MADE = new Map<string, Float64Array>();
+const MAX_MADE = 8;
+/** Longer windows (a whole record's) are made afresh: memory, not time, is what they would cost kept. */
+const MAX_KEPT_LENGTH = 1 << 16;
+
 /** Periodic window of `length` samples. */
 export function windowCoefficients(kind: WindowKind, length: number): Float64Array {
   const facts = FACTS[kind];
@@ -49,7 +59,18 @@ export function windowCoefficients(kind: WindowKind, length: number): Float64Arr
   if (!Number.isInteger(length) || length < 1) {
     throw new InputError('window length', 'a positive whole number of samples', `got ${length}`);
   }
-  const a = facts.coefficients;
+  if (length > MAX_KEPT_LENGTH) return cosineSum(facts.coefficients, length);
+  const key = `${kind} ${length}`;
+  let made = MADE.get(key);
+  if (!made) {
+    made = cosineSum(facts.coefficients, length);
+    if (MADE.size >= MAX_MADE) MADE.delete(MADE.keys().next().value as string);
+    MADE.set(key, made);
+  }
+  return made.slice();
+}
+
+function cosineSum(a: readonly number[], length: number): Float64Array {
   const w = new Float64Array(length);
   for (let n = 0; n < length; n++) {
     let sum = a[0];

@@ -77,6 +77,24 @@ describe('stoi', () => {
     expect(elapsed).toBeLessThan(1500); // generous for a shared 2-core machine; see the report for the figure
   });
 
+  it('keeps the last clean signal at 10 kHz for the next call, with the same score to the bit as resampling it afresh', () => {
+    const x = speechLike(48000, 3);
+    const other = speechLike(48000, 3, 7);
+    const y1 = withNoise(x, 5, 1);
+    const y2 = withNoise(x, 0, 2);
+    stoi(other, other, 48000);
+    const fresh = stoi(x, y2, 48000); // x resampled: another clean signal was kept
+    stoi(x, y1, 48000);
+    expect(stoi(x, y2, 48000)).toBe(fresh); // x kept from the call before
+    expect(stoiAligned(x, y2, 48000)).toBe(stoiAligned(x, y2, 48000));
+    // A clean signal changed in place after a call is resampled again, not taken for the kept one.
+    x[24000] += 0.2;
+    const changed = stoi(x, y2, 48000);
+    expect(changed).not.toBe(fresh);
+    stoi(other, other, 48000);
+    expect(stoi(x, y2, 48000)).toBe(changed);
+  });
+
   it('rejects signals too short for one 30-frame segment, and silence', () => {
     const short = speechLike(10000, 0.3);
     expect(() => stoi(short, short, 10000)).toThrow(/at least 30 frames/);

@@ -50,6 +50,20 @@ describe('windows', () => {
     expect(Array.from(windowCoefficients('rectangular', 4))).toEqual([1, 1, 1, 1]);
   });
 
+  it('hands out its own copy each time: a caller that writes into one changes nothing for the next', () => {
+    const first = windowCoefficients('hann', 1024);
+    // Hann at n = L/4 is 0.5 − 0.5·cos(π/2) = 0.5 (Harris 1978, periodic form).
+    expect(first[256]).toBeCloseTo(0.5, 15);
+    first.fill(7);
+    const again = windowCoefficients('hann', 1024);
+    expect(again).not.toBe(first);
+    expect(again[256]).toBeCloseTo(0.5, 15);
+    expect(again[0]).toBe(0);
+    const long = windowCoefficients('hann', (1 << 16) + 4);
+    long.fill(7);
+    expect(windowCoefficients('hann', (1 << 16) + 4)[0]).toBe(0);
+  });
+
   it('rejects unknown kinds and bad lengths', () => {
     expect(() => windowCoefficients('kaiser' as WindowKind, 8)).toThrow(/window: .*expected one of/);
     expect(() => windowCoefficients('hann', 0)).toThrow(/window length/);
