@@ -67,10 +67,17 @@ export class HalfBandUpStage {
     for (let j = 0; j < count; j++) {
       const newest = c + j; // line[newest − k] = x[m − k]
       const oldest = j;
-      let sum = 0;
-      for (let a = 0; a < pairs; a++) sum += taps[a] * (line[newest - a] + line[oldest + a]);
+      // Two running sums (even and odd pairs), so that each addition need not wait on the last.
+      let even = 0;
+      let odd = 0;
+      let a = 0;
+      for (; a + 1 < pairs; a += 2) {
+        even += taps[a] * (line[newest - a] + line[oldest + a]);
+        odd += taps[a + 1] * (line[newest - a - 1] + line[oldest + a + 1]);
+      }
+      if (a < pairs) even += taps[a] * (line[newest - a] + line[oldest + a]);
       output[2 * j] = line[newest - delayed]; // 2·h[c] = 1: the pure-delay branch
-      output[2 * j + 1] = sum;
+      output[2 * j + 1] = even + odd;
     }
   }
 }
@@ -106,9 +113,15 @@ export class HalfBandDownStage {
     let written = 0;
     for (let j = first; j < count; j += 2) {
       const mid = c + j; // line[2c + j] is the input completing this output
-      let sum = 0.5 * line[mid];
-      for (let a = 0; a < pairs; a++) sum += taps[a] * (line[mid + 2 * a + 1] + line[mid - 2 * a - 1]);
-      output[written++] = sum;
+      let even = 0;
+      let odd = 0;
+      let a = 0;
+      for (; a + 1 < pairs; a += 2) {
+        even += taps[a] * (line[mid + 2 * a + 1] + line[mid - 2 * a - 1]);
+        odd += taps[a + 1] * (line[mid + 2 * a + 3] + line[mid - 2 * a - 3]);
+      }
+      if (a < pairs) even += taps[a] * (line[mid + 2 * a + 1] + line[mid - 2 * a - 1]);
+      output[written++] = 0.5 * line[mid] + (even + odd);
     }
     return written;
   }
