@@ -32,6 +32,7 @@ export async function cliBundle(entry, cacheFolder) {
   }
   if (isCurrent(file, root, esbuild.version)) return file;
   try {
+    const startedMs = Date.now();
     const result = await esbuild.build({
       entryPoints: [entry],
       absWorkingDir: root,
@@ -45,9 +46,11 @@ export async function cliBundle(entry, cacheFolder) {
       metafile: true,
       logLevel: 'silent',
     });
+    // A source saved while esbuild ran may be in the bundle as it was before: record no time for
+    // it, so that the next start builds again.
     const inputs = Object.keys(result.metafile.inputs).map((input) => {
       const stats = statSync(path.resolve(root, input));
-      return [input, stats.size, stats.mtimeMs];
+      return [input, stats.size, stats.mtimeMs < startedMs - 1 ? stats.mtimeMs : -1];
     });
     const record = JSON.stringify({ format: FORMAT, esbuild: esbuild.version, inputs });
     mkdirSync(cacheFolder, { recursive: true });

@@ -1,4 +1,4 @@
-import { mkdtempSync, readFileSync, readdirSync, statSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, readFileSync, readdirSync, statSync, utimesSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { pathToFileURL } from 'node:url';
@@ -40,6 +40,22 @@ describe('the command line bundle (bin/cli-bundle.mjs)', () => {
     writeFileSync(join(folder, 'part.ts'), 'export const value: number = 100;\n');
     const file = await cliBundle(entry, cache);
     expect((await load(file!)).doubled()).toBe(200);
+  });
+
+  it('does not trust a source dated after the build began (saved while esbuild ran): the next call builds again', async () => {
+    const { folder, entry, cache } = program(3);
+    const soon = new Date(Date.now() + 60_000);
+    utimesSync(join(folder, 'part.ts'), soon, soon);
+    const file = (await cliBundle(entry, cache))!;
+    expect((await load(file)).doubled()).toBe(6);
+    const first = readFileSync(file, 'utf8');
+    const past = new Date(Date.now() - 60_000);
+    utimesSync(join(folder, 'part.ts'), past, past);
+    await cliBundle(entry, cache);
+    const second = readFileSync(file, 'utf8');
+    expect(second).not.toBe(first); // built again: its record now holds the source's time
+    expect(await cliBundle(entry, cache)).toBe(file);
+    expect(readFileSync(file, 'utf8')).toBe(second); // and kept from then on
   });
 
   it('builds the bundle again when its record of what it was made from is damaged', async () => {
