@@ -24,19 +24,19 @@ const FORMAT = 2;
  */
 export async function cliBundle(entry, cacheFolder) {
   const file = path.join(cacheFolder, `${path.basename(entry).replace(/\.[cm]?ts$/, '')}.mjs`);
-  const root = path.dirname(entry);
+  const entryFolder = path.dirname(entry);
   let esbuild;
   try {
     esbuild = await import('esbuild');
   } catch {
     return null;
   }
-  if (isCurrent(file, root, esbuild.version)) return file;
+  if (isCurrent(file, entryFolder, esbuild.version)) return file;
   try {
     const startedMs = Date.now();
     const result = await esbuild.build({
       entryPoints: [entry],
-      absWorkingDir: root,
+      absWorkingDir: entryFolder,
       bundle: true,
       platform: 'node',
       format: 'esm',
@@ -51,7 +51,7 @@ export async function cliBundle(entry, cacheFolder) {
     // A source saved while esbuild ran may be in the bundle as it was before: record no time for
     // it, so that the next start builds again.
     const inputs = Object.keys(result.metafile.inputs).map((input) => {
-      const stats = statSync(path.resolve(root, input));
+      const stats = statSync(path.resolve(entryFolder, input));
       return [input, stats.size, stats.mtimeMs < startedMs - 1 ? stats.mtimeMs : -1];
     });
     const record = JSON.stringify({ format: FORMAT, esbuild: esbuild.version, inputs });
@@ -70,8 +70,8 @@ export async function cliBundle(entry, cacheFolder) {
   }
 }
 
-/** The bundle exists and every input it records still has its recorded size and time. */
-function isCurrent(file, root, esbuildVersion) {
+/** The bundle exists and every input it records (relative to `entryFolder`) still has its recorded size and time. */
+function isCurrent(file, entryFolder, esbuildVersion) {
   let text;
   try {
     text = readFileSync(file, 'utf8');
@@ -88,7 +88,7 @@ function isCurrent(file, root, esbuildVersion) {
   if (record.format !== FORMAT || record.esbuild !== esbuildVersion || !Array.isArray(record.inputs) || record.inputs.length === 0) return false;
   for (const [input, size, mtimeMs] of record.inputs) {
     try {
-      const stats = statSync(path.resolve(root, input));
+      const stats = statSync(path.resolve(entryFolder, input));
       if (stats.size !== size || stats.mtimeMs !== mtimeMs) return false;
     } catch {
       return false;

@@ -25,7 +25,6 @@ export function watchTransistors(
   samplePeriodSeconds: number,
   offsetSeconds: number,
 ): TransistorWatch[] {
-  const at = (index: number): number => (index < 0 ? -1 : index);
   return simulator.system.devices
     .filter((device): device is Bjt => device instanceof Bjt)
     .map((device) => {
@@ -33,9 +32,9 @@ export function watchTransistors(
       return {
         circuit,
         ref: device.ref,
-        collector: at(t.collector),
-        base: at(t.base),
-        emitter: at(t.emitter),
+        collector: t.collector,
+        base: t.base,
+        emitter: t.emitter,
         polarity: t.polarity,
         conductingVolts: device.conductingJunctionVolts,
         saturation: new IntervalTracker(samplePeriodSeconds, offsetSeconds),
